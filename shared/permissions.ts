@@ -1,0 +1,78 @@
+/**
+ * What each workshop role may do (DESIGN.md §2). One statement, used three ways:
+ * better-auth's organization plugin enforces it on its own endpoints, the server's route guards
+ * (`requirePermission`) check it on ours, and the client hides what a role may not use.
+ */
+import { createAccessControl } from "better-auth/plugins/access";
+import { defaultStatements } from "better-auth/plugins/organization/access";
+
+export const statement = {
+  ...defaultStatements,
+  workshop: ["read", "update"],
+  mail: ["read"],
+  spec: ["read", "write"],
+  batch: ["read", "create", "release"],
+  unit: ["read", "create"],
+  strike: ["read", "create"],
+  disposition: ["create"],
+  certificate: ["read", "issue"],
+  audit: ["read"],
+} as const;
+
+export const ac = createAccessControl(statement);
+
+type Grants = { [K in keyof typeof statement]?: readonly (typeof statement)[K][number][] };
+
+const makerGrants = {
+  workshop: ["read"],
+  spec: ["read"],
+  batch: ["read", "create"],
+  unit: ["read", "create"],
+  strike: ["read", "create"],
+  certificate: ["read"],
+} satisfies Grants;
+
+const qaGrants = {
+  ...makerGrants,
+  spec: ["read", "write"],
+  batch: ["read", "create", "release"],
+  disposition: ["create"],
+  certificate: ["read", "issue"],
+  audit: ["read"],
+} satisfies Grants;
+
+const ownerGrants = {
+  ...qaGrants,
+  workshop: ["read", "update"],
+  mail: ["read"],
+  organization: ["update", "delete"],
+  member: ["create", "update", "delete"],
+  invitation: ["create", "cancel"],
+  ac: ["read"],
+} satisfies Grants;
+
+export const grants = { owner: ownerGrants, qa: qaGrants, maker: makerGrants } as const;
+
+export const roles = {
+  owner: ac.newRole(ownerGrants as never),
+  qa: ac.newRole(qaGrants as never),
+  maker: ac.newRole(makerGrants as never),
+};
+
+export const roleNames = ["owner", "qa", "maker"] as const;
+export type RoleName = (typeof roleNames)[number];
+export type Resource = keyof typeof statement;
+export type Action<R extends Resource> = (typeof statement)[R][number];
+
+/** True when `role` may perform `action` on `resource`. Pure; safe on both sides. */
+export function can<R extends Resource>(role: RoleName | null | undefined, resource: R, action: Action<R>): boolean {
+  if (!role) return false;
+  const list = (grants[role] as Grants)[resource] as readonly string[] | undefined;
+  return list?.includes(action) ?? false;
+}
+
+export const roleLabels: Record<RoleName, string> = {
+  owner: "Owner",
+  qa: "Quality",
+  maker: "Maker",
+};
