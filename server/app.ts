@@ -1,0 +1,82 @@
+/**
+ * Builds the Express app without listening, so tests mount it directly. A thin shell: security
+ * headers, logging, better-auth, session context, the feature routers, the built client, errors.
+ */
+import { existsSync } from "node:fs";
+import path from "node:path";
+import { fileURLToPath } from "node:url";
+import { toNodeHandler } from "better-auth/node";
+import express from "express";
+import helmet from "helmet";
+import { pinoHttp } from "pino-http";
+import type { Auth } from "./auth.ts";
+import type { Db, Sqlite } from "./db/client.ts";
+import type { Env } from "./env.ts";
+import type { Logger } from "./logger.ts";
+import type { Mailer } from "./mail/mailer.ts";
+import { contextMiddleware } from "./middleware/context.ts";
+import { apiNotFound, errorHandler } from "./middleware/errors.ts";
+import { sameOriginJson } from "./middleware/origin.ts";
+import { mailRoutes } from "./routes/mail.ts";
+import { sessionRoutes } from "./routes/session.ts";
+
+export type AppDeps = {
+  env: Env;
+  db: Db;
+  sqlite: Sqlite;
+  auth: Auth;
+  mailer: Mailer;
+  logger: Logger;
+};
+
+const clientDir = fileURLToPath(new URL("../dist/client", import.meta.url));
+
+/** The feature routers, in one list: the authorization matrix test walks them. */
+export function apiRouters(deps: AppDeps) {
+  return [sessionRoutes(deps), mailRoutes(deps)];
+}
+
+export function createApp(deps: AppDeps) {
+  const app = express();
+  app.disable("x-powered-by");
+  app.set("trust proxy", "loopback");
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          "img-src": ["'self'", "data:", "blob:"],
+          "media-src": ["'self'", "blob:"],
+          "worker-src": ["'self'", "blob:"],
+          "frame-src": ["'self'"],
+          // Only ask browsers to upgrade sub-resources when we really are on https.
+          "upgrade-insecure-requests": deps.env.baseUrl.startsWith("https://") ? [] : null,
+        },
+      },
+      // Secure-transport header only when we are actually served over https.
+      strictTransportSecurity: deps.env.baseUrl.startsWith("https://"),
+    }),
+  );
+  app.use(pinoHttp({ logger: deps.logger, autoLogging: { ignore: (req) => !req.url?.startsWith("/api") } }));
+
+  // better-auth reads its own body, so it goes before express.json().
+  app.all("/api/auth/{*any}", toNodeHandler(deps.auth));
+
+  const api = express.Router();
+  api.use(express.json({ limit: "1mb" }));
+  api.use(contextMiddleware(deps.auth, deps.db));
+  api.use(sameOriginJson(deps.env.trustedOrigins));
+  for (const router of apiRouters(deps)) api.use(router);
+  api.use(apiNotFound);
+  app.use("/api", api);
+
+  if (existsSync(path.join(clientDir, "index.html"))) {
+    app.use(express.static(clientDir, { index: false, maxAge: "1h" }));
+    app.get("/{*splat}", (_req, res) => res.sendFile(path.join(clientDir, "index.html")));
+  } else {
+    app.get("/", (_req, res) => {
+      res.type("text").send("Tinelog API is running. Build the client with `npm run build`, or use `npm run dev`.");
+    });
+  }
+  app.use(errorHandler);
+  return app;
+}

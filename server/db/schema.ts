@@ -1,0 +1,3 @@
+/** The whole schema, for drizzle-kit and for `drizzle(sqlite, { schema })`. */
+export * from "./auth-schema.ts";
+export * from "./app-schema.ts";

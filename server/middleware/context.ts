@@ -1,0 +1,67 @@
+/**
+ * Resolves the session (better-auth) and the active workshop with the member's role, once per request.
+ * Handlers read `req.ctx`; they never look at cookies or role names themselves.
+ */
+import { fromNodeHeaders } from "better-auth/node";
+import { and, asc, eq } from "drizzle-orm";
+import type { NextFunction, Request, Response } from "express";
+import type { RoleName } from "../../shared/permissions.ts";
+import type { Auth } from "../auth.ts";
+import type { Db } from "../db/client.ts";
+import { member, organization } from "../db/schema.ts";
+
+export type Workshop = { id: string; name: string; slug: string; role: RoleName };
+
+export type RequestContext = {
+  user: { id: string; name: string; email: string } | null;
+  sessionId: string | null;
+  workshop: Workshop | null;
+};
+
+declare global {
+  // eslint-disable-next-line @typescript-eslint/no-namespace
+  namespace Express {
+    interface Request {
+      ctx: RequestContext;
+    }
+  }
+}
+
+export function listWorkshops(db: Db, userId: string): Workshop[] {
+  return db
+    .select({ id: organization.id, name: organization.name, slug: organization.slug, role: member.role })
+    .from(member)
+    .innerJoin(organization, eq(organization.id, member.organizationId))
+    .where(eq(member.userId, userId))
+    .orderBy(asc(member.createdAt))
+    .all()
+    .map((w) => ({ ...w, slug: w.slug ?? w.id, role: w.role as RoleName }));
+}
+
+export function contextMiddleware(auth: Auth, db: Db) {
+  return async (req: Request, _res: Response, next: NextFunction) => {
+    req.ctx = { user: null, sessionId: null, workshop: null };
+    try {
+      const found = await auth.api.getSession({ headers: fromNodeHeaders(req.headers) });
+      if (!found) return next();
+      const { user, session } = found;
+      req.ctx.user = { id: user.id, name: user.name, email: user.email };
+      req.ctx.sessionId = session.id;
+      const activeId = (session as { activeOrganizationId?: string | null }).activeOrganizationId;
+      if (activeId) {
+        const row = db
+          .select({ id: organization.id, name: organization.name, slug: organization.slug, role: member.role })
+          .from(member)
+          .innerJoin(organization, eq(organization.id, member.organizationId))
+          .where(and(eq(member.userId, user.id), eq(member.organizationId, activeId)))
+          .get();
+        if (row) req.ctx.workshop = { ...row, slug: row.slug ?? row.id, role: row.role as RoleName };
+      }
+      // No active workshop chosen yet (a fresh sign-in): the first one the user joined.
+      req.ctx.workshop ??= listWorkshops(db, user.id)[0] ?? null;
+      next();
+    } catch (error) {
+      next(error);
+    }
+  };
+}

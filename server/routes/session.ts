@@ -1,0 +1,43 @@
+/** Who is signed in, their workshops, and the public invitation look-up for the sign-up page. */
+import { eq } from "drizzle-orm";
+import { Router } from "express";
+import { invitation, organization, user } from "../db/schema.ts";
+import { notFound } from "../http-error.ts";
+import { listWorkshops } from "../middleware/context.ts";
+import { publicRoute, requireUser, userOf } from "../middleware/guards.ts";
+import type { AppDeps } from "../app.ts";
+
+export function sessionRoutes({ db }: AppDeps) {
+  const r = Router();
+
+  r.get("/health", publicRoute, (_req, res) => {
+    res.json({ ok: true });
+  });
+
+  r.get("/me", requireUser, (req, res) => {
+    const u = userOf(req);
+    res.json({ user: u, workshops: listWorkshops(db, u.id), activeWorkshop: req.ctx.workshop });
+  });
+
+  r.get("/invitations/:id", publicRoute, (req, res) => {
+    const row = db
+      .select({
+        id: invitation.id,
+        email: invitation.email,
+        role: invitation.role,
+        status: invitation.status,
+        expiresAt: invitation.expiresAt,
+        workshopName: organization.name,
+        inviterName: user.name,
+      })
+      .from(invitation)
+      .innerJoin(organization, eq(organization.id, invitation.organizationId))
+      .innerJoin(user, eq(user.id, invitation.inviterId))
+      .where(eq(invitation.id, String(req.params.id)))
+      .get();
+    if (!row) throw notFound("That invitation");
+    res.json(row);
+  });
+
+  return r;
+}
