@@ -1,0 +1,53 @@
+/**
+ * The error element of every route: it branches on the status. 401 sends the person to sign in
+ * (and back here afterwards); 403 and 404 get a plain sentence; anything else says what to try.
+ */
+import { Navigate, isRouteErrorResponse, useLocation, useRouteError } from "react-router";
+import { paths } from "@/config/paths";
+import { fallbackMessage, isApiError } from "@/lib/api-client";
+import { ButtonLink } from "@/components/ui/button";
+import { Wordmark } from "@/components/ui/wordmark";
+
+function statusOf(error: unknown): { status: number; message: string } {
+  if (isApiError(error)) return { status: error.status, message: error.message };
+  if (isRouteErrorResponse(error)) {
+    const message = typeof error.data === "string" && error.data ? error.data : fallbackMessage(error.status);
+    return { status: error.status, message: error.status === 404 ? "There is no page at this address. Check the link, or go back to the dashboard." : message };
+  }
+  return { status: 500, message: "This page hit an unexpected problem. Reload the page; if it keeps happening, tell the workshop owner." };
+}
+
+export function RouteError() {
+  const error = useRouteError();
+  const location = useLocation();
+  const { status, message } = statusOf(error);
+
+  if (status === 401) {
+    return <Navigate to={paths.auth.signIn.getHref(location.pathname + location.search)} replace />;
+  }
+  if (status >= 500 || status === 0) console.error(error);
+
+  const title =
+    status === 403 ? "Not available for your role" : status === 404 ? "Not found" : status === 0 ? "No connection to Tinelog" : "Something went wrong";
+
+  return (
+    <main className="mx-auto flex min-h-[60dvh] max-w-form flex-col justify-center gap-4 px-gutter py-12">
+      <Wordmark />
+      <div role="alert" className="rounded-panel border border-line bg-surface p-6 shadow-panel">
+        <h1 className="text-title font-semibold">{title}</h1>
+        <p className="mt-2 text-ink-soft">{message}</p>
+        {status !== 403 && status !== 404 ? <p className="mt-2 text-caption text-ink-faint">Status {status || "no answer"}</p> : null}
+        <div className="mt-5 flex flex-wrap gap-2">
+          <ButtonLink to={paths.app.root.getHref()} variant="primary">
+            Go to the dashboard
+          </ButtonLink>
+          {status !== 403 && status !== 404 ? (
+            <ButtonLink to={location.pathname + location.search} reloadDocument>
+              Reload
+            </ButtonLink>
+          ) : null}
+        </div>
+      </div>
+    </main>
+  );
+}

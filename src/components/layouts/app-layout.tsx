@@ -1,0 +1,64 @@
+import clsx from "clsx";
+import type { ReactNode } from "react";
+import { NavLink } from "react-router";
+import { Wordmark } from "@/components/ui/wordmark";
+
+export type NavItem = { to: string; label: string; end?: boolean; note?: string };
+
+type Props = {
+  nav: NavItem[];
+  switcher: ReactNode;
+  account: ReactNode;
+  children: ReactNode;
+};
+
+/**
+ * The signed-in frame: a rail on wide screens (tablet landscape and up), a top bar with the same
+ * links on narrow ones. A skip link jumps past the navigation for keyboard users.
+ */
+export function AppLayout({ nav, switcher, account, children }: Props) {
+  return (
+    <div className="min-h-dvh bg-canvas md:grid md:grid-cols-[var(--spacing-rail)_1fr]">
+      <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-10 focus:rounded-control focus:bg-surface focus:px-4 focus:py-2">
+        Skip to content
+      </a>
+      <aside className="border-b border-line bg-surface md:sticky md:top-0 md:flex md:h-dvh md:flex-col md:border-b-0 md:border-r">
+        <div className="flex items-center justify-between gap-4 px-gutter pt-4 md:block">
+          <Wordmark />
+        </div>
+        <div className="px-gutter pt-4">{switcher}</div>
+        <nav aria-label="Main" className="px-3 py-3 md:flex-1 md:overflow-y-auto">
+          <ul className="flex flex-wrap gap-1 md:flex-col">
+            {nav.map((item) => (
+              <li key={item.to}>
+                <NavLink
+                  to={item.to}
+                  end={item.end}
+                  className={({ isActive }) =>
+                    clsx(
+                      "flex min-h-touch items-center justify-between gap-2 rounded-control px-3 font-medium",
+                      isActive ? "bg-steel-600 text-white" : "text-ink hover:bg-steel-50",
+                    )
+                  }
+                >
+                  {({ isActive }) => (
+                    <>
+                      <span>{item.label}</span>
+                      {item.note ? (
+                        <span className={clsx("hidden text-caption font-normal md:inline", isActive ? "text-steel-100" : "text-ink-faint")}>{item.note}</span>
+                      ) : null}
+                    </>
+                  )}
+                </NavLink>
+              </li>
+            ))}
+          </ul>
+        </nav>
+        <div className="border-t border-line px-gutter py-4">{account}</div>
+      </aside>
+      <main id="main" tabIndex={-1} className="min-w-0 px-gutter py-6 md:py-10">
+        <div className="mx-auto max-w-page">{children}</div>
+      </main>
+    </div>
+  );
+}

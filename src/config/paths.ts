@@ -1,0 +1,42 @@
+/**
+ * Every route path of the client, in one place (STYLE.md). Components link with `getHref`,
+ * the router matches `path`. Nothing else in src/ spells a URL of a page.
+ */
+export const paths = {
+  home: { path: "/", getHref: () => "/" },
+
+  auth: {
+    signIn: {
+      path: "/sign-in",
+      getHref: (redirectTo?: string | null) =>
+        `/sign-in${redirectTo ? `?redirectTo=${encodeURIComponent(redirectTo)}` : ""}`,
+    },
+    signUp: {
+      path: "/sign-up",
+      getHref: (redirectTo?: string | null) =>
+        `/sign-up${redirectTo ? `?redirectTo=${encodeURIComponent(redirectTo)}` : ""}`,
+    },
+    createWorkshop: { path: "/create-workshop", getHref: () => "/create-workshop" },
+  },
+
+  /** Pages anyone may open without signing in (the invitation landing now; certificate verification later). */
+  public: {
+    invitation: { path: "/invite/:id", getHref: (id: string) => `/invite/${encodeURIComponent(id)}` },
+  },
+
+  app: {
+    root: { path: "/app", getHref: () => "/app" },
+    dashboard: { path: "", getHref: () => "/app" },
+    batches: { path: "batches", getHref: () => "/app/batches" },
+    specifications: { path: "specifications", getHref: () => "/app/specifications" },
+    members: { path: "members", getHref: () => "/app/members" },
+    outbox: { path: "outbox", getHref: () => "/app/outbox" },
+    outboxMessage: { path: "outbox/:id", getHref: (id: string) => `/app/outbox/${encodeURIComponent(id)}` },
+  },
+} as const;
+
+/** Only same-site, in-app paths are honoured as a place to return to after signing in. */
+export function safeRedirect(target: string | null | undefined, fallback: string = paths.app.root.getHref()): string {
+  if (!target || !target.startsWith("/") || target.startsWith("//") || target.startsWith("/api/")) return fallback;
+  return target;
+}

@@ -1,0 +1,24 @@
+import { queryOptions, useQuery } from "@tanstack/react-query";
+import type { RoleName } from "@shared/permissions";
+import { api } from "@/lib/api-client";
+
+/** What the public invitation landing may show before anyone signs in (GET /api/invitations/:id). */
+export type PublicInvitation = {
+  id: string;
+  email: string;
+  role: RoleName;
+  status: "pending" | "accepted" | "rejected" | "canceled";
+  workshopName: string;
+  inviterName: string;
+  expiresAt: string;
+};
+
+export function getInvitation(id: string) {
+  return api.get<PublicInvitation>(`/api/invitations/${encodeURIComponent(id)}`);
+}
+
+export const getInvitationQueryOptions = (id: string) => queryOptions({ queryKey: ["invitations", id], queryFn: () => getInvitation(id) });
+
+export function useInvitation(id: string) {
+  return useQuery(getInvitationQueryOptions(id));
+}

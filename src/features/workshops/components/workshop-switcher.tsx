@@ -1,0 +1,55 @@
+import { useId, useState } from "react";
+import { Link } from "react-router";
+import { roleLabels } from "@shared/permissions";
+import type { WorkshopMembership } from "@/lib/auth";
+import { useSetActiveWorkshop } from "../api/set-active-workshop";
+
+type Props = {
+  workshops: WorkshopMembership[];
+  activeId: string | null;
+  createHref: string;
+  onSwitched: () => void;
+};
+
+/** A native select: keyboard and touch friendly everywhere, and it says the role in each workshop. */
+export function WorkshopSwitcher({ workshops, activeId, createHref, onSwitched }: Props) {
+  const id = useId();
+  const setActive = useSetActiveWorkshop();
+  const [error, setError] = useState<string | null>(null);
+
+  return (
+    <div className="flex flex-col gap-1">
+      <label htmlFor={id} className="text-caption font-semibold text-ink-soft">
+        Workshop
+      </label>
+      <select
+        id={id}
+        className="min-h-touch w-full rounded-control border border-line-strong bg-surface px-2 text-body text-ink disabled:opacity-60"
+        value={activeId ?? ""}
+        disabled={setActive.isPending}
+        onChange={(event) => {
+          setError(null);
+          setActive.mutate(event.target.value, {
+            onSuccess: onSwitched,
+            onError: (cause) => setError(cause.message),
+          });
+        }}
+      >
+        {activeId ? null : <option value="">Choose a workshop</option>}
+        {workshops.map((workshop) => (
+          <option key={workshop.id} value={workshop.id}>
+            {workshop.name} · {roleLabels[workshop.role] ?? workshop.role}
+          </option>
+        ))}
+      </select>
+      {error ? (
+        <p role="alert" className="text-caption text-rust-700">
+          {error}
+        </p>
+      ) : null}
+      <Link to={createHref} className="self-start text-caption text-steel-700 underline-offset-2 hover:underline">
+        New workshop…
+      </Link>
+    </div>
+  );
+}

@@ -1,0 +1,76 @@
+/**
+ * Who is signed in and in which workshop (GET /api/me), plus sign-in, sign-up and sign-out.
+ * `me` is `null` when nobody is signed in: loaders redirect on it, pages branch on it.
+ */
+import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import type { RoleName } from "@shared/permissions";
+import type { SignInInput, SignUpInput } from "@shared/schemas/account";
+import { api, isApiError } from "./api-client";
+import { authClient, unwrap } from "./auth-client";
+
+export type WorkshopMembership = { id: string; name: string; slug: string; role: RoleName };
+export type Me = {
+  user: { id: string; name: string; email: string };
+  workshops: WorkshopMembership[];
+  activeWorkshop: WorkshopMembership | null;
+};
+
+export async function getMe(): Promise<Me | null> {
+  try {
+    return await api.get<Me>("/api/me");
+  } catch (error) {
+    if (isApiError(error) && error.status === 401) return null;
+    throw error;
+  }
+}
+
+export const meQueryKey = ["me"] as const;
+export const getMeQueryOptions = () => queryOptions({ queryKey: meQueryKey, queryFn: getMe });
+
+export function useMe() {
+  return useQuery(getMeQueryOptions());
+}
+
+export function signIn(input: SignInInput) {
+  return unwrap(authClient.signIn.email({ email: input.email, password: input.password }));
+}
+
+export function signUp(input: SignUpInput) {
+  return unwrap(authClient.signUp.email({ name: input.name, email: input.email, password: input.password }));
+}
+
+/**
+ * A new identity means every cached answer may belong to someone else: drop them all, except the
+ * public invitation details (the same for anyone holding the link), which the invitation page shows.
+ */
+function useResetAfterIdentityChange() {
+  const queryClient = useQueryClient();
+  return async () => {
+    queryClient.removeQueries({ predicate: (query) => query.queryKey[0] !== "invitations" });
+    await queryClient.fetchQuery(getMeQueryOptions());
+  };
+}
+
+export function useSignIn() {
+  const reset = useResetAfterIdentityChange();
+  return useMutation({ mutationFn: signIn, onSuccess: reset });
+}
+
+export function useSignUp() {
+  const reset = useResetAfterIdentityChange();
+  return useMutation({ mutationFn: signUp, onSuccess: reset });
+}
+
+/**
+ * Signs out, then loads `nextHref` afresh: a full page load is the surest way to leave nothing of
+ * the previous person's data in memory (query cache, form state, router data).
+ */
+export function useSignOut() {
+  return useMutation({
+    mutationFn: async (nextHref: string) => {
+      await unwrap(authClient.signOut());
+      return nextHref;
+    },
+    onSuccess: (nextHref) => window.location.replace(nextHref),
+  });
+}
