@@ -1,0 +1,169 @@
+/**
+ * Test certificates (issue 6): the request that issues one, and `CertificateData`, everything the
+ * PDF shows and the signature covers. Content follows ISO/IEC 17025:2017 §7.8 (reports of
+ * results), in our own wording: identification on every page, method, conditions, results with
+ * units and expanded uncertainty, decision rule, statement of conformity, authorisation, amendments.
+ */
+import { z } from "zod";
+
+const email = (what: string) =>
+  z
+    .string()
+    .trim()
+    .min(1, `Enter ${what}.`)
+    .pipe(z.email(`This is not an e-mail address; ${what} should look like name@example.com.`));
+
+/** Body of `POST /api/units/:id/certificates`. Amending needs both the number amended and a reason. */
+export const issueCertificateSchema = z
+  .object({
+    recipientEmail: email("the recipient's e-mail address"),
+    recipientName: z.string().trim().min(1, "Leave the recipient's name out or enter at least one character.").max(120, "Keep the recipient's name under 120 characters.").optional(),
+    amendsNumber: z.string().trim().min(1, "Give the number of the certificate this one amends.").max(64).optional(),
+    amendReason: z.string().trim().min(3, "Say in a few words why the certificate is amended.").max(500, "Keep the reason under 500 characters.").optional(),
+  })
+  .superRefine((v, ctx) => {
+    if (v.amendsNumber && !v.amendReason) {
+      ctx.addIssue({ code: "custom", path: ["amendReason"], message: "An amendment needs a reason: say what was wrong in the earlier certificate." });
+    }
+    if (v.amendReason && !v.amendsNumber) {
+      ctx.addIssue({ code: "custom", path: ["amendsNumber"], message: "A reason was given but no certificate to amend: give its number, or leave the reason out." });
+    }
+  });
+export type IssueCertificateInput = z.infer<typeof issueCertificateSchema>;
+
+/** `201` answer of the issue route. */
+export const issuedCertificateSchema = z.object({ number: z.string(), verifyUrl: z.string() });
+export type IssuedCertificate = z.infer<typeof issuedCertificateSchema>;
+
+/** Random, URL-safe verification code (base64url, ≥ 128 bits: at least 22 characters). */
+export const verificationCodeSchema = z.string().regex(/^[A-Za-z0-9_-]{22,64}$/, "A verification code is 22 to 64 letters, digits, '-' or '_'; check the link.");
+
+const isoDateTime = z.iso.datetime({ offset: true, message: "Use an ISO 8601 date and time, e.g. 2026-11-30T14:05:00Z." });
+const isoDate = z.iso.date("Use an ISO 8601 date, e.g. 2026-11-30.").or(isoDateTime);
+const text = (what: string) => z.string().trim().min(1, `${what} must not be empty.`);
+
+export const lineResultSchema = z.enum(["pass", "fail", "inconclusive"]);
+export type LineResult = z.infer<typeof lineResultSchema>;
+export const verdictSchema = z.enum(["within_tolerance", "out_of_tolerance", "inconclusive"]);
+export type Verdict = z.infer<typeof verdictSchema>;
+export const decisionRuleSchema = z.enum(["simple", "guarded"]);
+export type DecisionRule = z.infer<typeof decisionRuleSchema>;
+
+/** One results line: a required partial as measured on this unit. */
+export const certificateResultSchema = z.object({
+  /** The partial's role in the spec, e.g. "Fundamental", "First overtone". */
+  label: text("A result's label"),
+  /** Measured frequency (median of the unit's strikes, corrected to the reference temperature when the spec has one), Hz. */
+  measuredHz: z.number().positive(),
+  /** Expanded uncertainty of the measured frequency, coverage factor k = 2 (about 95 %), Hz. */
+  expandedUncertaintyHz: z.number().nonnegative(),
+  /** Target frequency, Hz (a ratio target already resolved against the measured fundamental). */
+  targetHz: z.number().positive(),
+  /** Tolerance, ± cents around the target. */
+  toleranceCents: z.number().positive(),
+  /** Deviation of the measured from the target frequency, cents (1200·log₂(measured/target)). */
+  deviationCents: z.number(),
+  /** Decay time to −60 dB, s. */
+  t60S: z.number().positive(),
+  /** Minimum T60 the spec requires for this partial, s; null when it sets none. */
+  minT60S: z.number().positive().nullable().optional(),
+  /** Quality factor Q = π·f·τ (dimensionless). */
+  q: z.number().positive(),
+  result: lineResultSchema,
+});
+export type CertificateResult = z.infer<typeof certificateResultSchema>;
+
+export const certificateDataSchema = z.object({
+  /** The certificate's unique number, printed on every page. */
+  number: text("The certificate number").max(64),
+  verificationCode: verificationCodeSchema,
+  /** Public verification link, also encoded in the QR code. */
+  verifyUrl: z.url({ protocol: /^https?$/, message: "The verification URL must be an http(s) address." }),
+  issuedAt: isoDateTime,
+  /** Set when this certificate amends (replaces) an earlier one. */
+  amends: z.object({ number: text("The amended certificate's number"), reason: text("The amendment reason") }).nullable(),
+  /** True when a later certificate replaced this one; the PDF then carries a SUPERSEDED mark. */
+  superseded: z.boolean(),
+  /** Number of the certificate that replaced this one, when known. */
+  supersededBy: z.string().min(1).nullable().optional(),
+  workshop: z.object({
+    name: text("The workshop name"),
+    /** Postal address, lines separated by "\n". */
+    address: text("The workshop address"),
+    sendingEmail: email("the workshop's sending address"),
+    qualityEmail: email("the workshop's quality contact"),
+  }),
+  customer: z.object({ name: text("The customer's name") }),
+  unit: z.object({ serial: text("The unit's serial") }),
+  product: z.object({
+    specName: text("The specification name"),
+    specVersion: z.number().int().positive(),
+    /** Product family, e.g. "tuning_fork_clinical", "chime_bar". */
+    family: text("The product family"),
+  }),
+  method: z.object({
+    name: text("The method name"),
+    analyserVersion: text("The analyser version"),
+    /** One or two sentences on how the partials were measured. */
+    summary: text("The method summary"),
+  }),
+  conditions: z.object({
+    /** Ambient temperature at measurement, °C; null when not recorded. */
+    temperatureC: z.number().min(-50).max(80).nullable(),
+    /** Reference temperature the results are corrected to, °C; null when no correction was applied. */
+    referenceTemperatureC: z.number().nullable().optional(),
+    /** How the unit was supported while struck, e.g. "suspended", "hand". */
+    support: text("The support condition"),
+    /** Number of strikes combined into the results. */
+    strikes: z.number().int().positive(),
+  }),
+  measuredFrom: isoDate,
+  measuredTo: isoDate,
+  results: z.array(certificateResultSchema).min(1, "A certificate needs at least one result line."),
+  decisionRule: decisionRuleSchema,
+  verdict: verdictSchema,
+  statementOfConformity: text("The statement of conformity"),
+  authorisedBy: z.object({ name: text("The authoriser's name"), role: text("The authoriser's role") }),
+  authorisedAt: isoDateTime,
+  flags: z.object({
+    /** Clinical or laboratory fork: the certificate adds that it states measurements only, no fitness for diagnosis. */
+    measurementOnlyCaution: z.boolean(),
+  }),
+});
+export type CertificateData = z.infer<typeof certificateDataSchema>;
+
+/** True for families whose users may rely on the pitch for a clinical or laboratory purpose. */
+export function needsMeasurementOnlyCaution(family: string): boolean {
+  return /clinic|medical|laborator|\blab\b|_lab\b/i.test(family);
+}
+
+/** Plain words for the verdict, used on the certificate and the verification page. */
+export const verdictWords: Record<Verdict, string> = {
+  within_tolerance: "Within tolerance",
+  out_of_tolerance: "Out of tolerance",
+  inconclusive: "Inconclusive",
+};
+
+/** Plain words for each decision rule (ISO/IEC 17025:2017 §7.8.6 asks for the rule to be stated). */
+export const decisionRuleWords: Record<DecisionRule, string> = {
+  simple:
+    "Simple acceptance: a line passes when its measured deviation lies within the tolerance. The measurement uncertainty is reported but not subtracted from the tolerance, so a result close to a limit carries a higher risk of a wrong decision.",
+  guarded:
+    "Guarded acceptance: a line passes only when |deviation| + U ≤ tolerance, fails when |deviation| − U > tolerance, and is inconclusive otherwise (U = expanded uncertainty, k = 2).",
+};
+
+/**
+ * A default statement of conformity for the verdict, in our own words; the issuing service may
+ * store its own text, which the certificate then prints as given.
+ */
+export function defaultStatementOfConformity(verdict: Verdict, rule: DecisionRule, specName: string, specVersion: number): string {
+  const under = `${specName}, version ${specVersion}, under the ${rule === "guarded" ? "guarded" : "simple"} acceptance rule stated above`;
+  switch (verdict) {
+    case "within_tolerance":
+      return `Every required partial of the item was found within the tolerance of ${under}. The item conforms to the specification.`;
+    case "out_of_tolerance":
+      return `At least one required partial of the item was found outside the tolerance of ${under}. The item does not conform to the specification.`;
+    case "inconclusive":
+      return `No required partial was found outside the tolerance of ${under}, but for at least one the measurement uncertainty does not allow a decision. Conformity can neither be confirmed nor ruled out.`;
+  }
+}
