@@ -46,8 +46,10 @@ export function signUp(input: SignUpInput) {
 function useResetAfterIdentityChange() {
   const queryClient = useQueryClient();
   return async () => {
-    queryClient.removeQueries({ predicate: (query) => query.queryKey[0] !== "invitations" });
-    await queryClient.fetchQuery(getMeQueryOptions());
+    const me = await getMe();
+    // removeQueries does not tell mounted observers, so `me` is replaced with setQueryData, which does.
+    queryClient.removeQueries({ predicate: (query) => query.queryKey[0] !== "invitations" && query.queryKey[0] !== meQueryKey[0] });
+    queryClient.setQueryData(meQueryKey, me);
   };
 }
 

@@ -22,7 +22,9 @@ export function AppLayout({ nav, switcher, account, children }: Props) {
       <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-10 focus:rounded-control focus:bg-surface focus:px-4 focus:py-2">
         Skip to content
       </a>
-      <aside className="border-b border-line bg-surface md:sticky md:top-0 md:flex md:h-dvh md:flex-col md:border-b-0 md:border-r">
+      {/* The column carries the colour and the border, so they run the full height of a long page. */}
+      <div className="border-b border-line bg-surface md:border-b-0 md:border-r">
+      <aside className="md:sticky md:top-0 md:flex md:h-dvh md:flex-col">
         <div className="flex items-center justify-between gap-4 px-gutter pt-4 md:block">
           <Wordmark />
         </div>
@@ -56,6 +58,7 @@ export function AppLayout({ nav, switcher, account, children }: Props) {
         </nav>
         <div className="border-t border-line px-gutter py-4">{account}</div>
       </aside>
+      </div>
       <main id="main" tabIndex={-1} className="min-w-0 px-gutter py-6 md:py-10">
         <div className="mx-auto max-w-page">{children}</div>
       </main>

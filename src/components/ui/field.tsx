@@ -2,7 +2,9 @@ import clsx from "clsx";
 import { forwardRef, useId, type InputHTMLAttributes, type ReactNode, type SelectHTMLAttributes } from "react";
 
 const control =
-  "block w-full min-h-touch rounded-control border bg-surface px-3 text-body text-ink placeholder:text-ink-faint disabled:bg-sunken disabled:text-ink-soft read-only:bg-sunken";
+  "block w-full min-h-touch rounded-control border bg-surface px-3 text-body text-ink placeholder:text-ink-faint disabled:bg-sunken disabled:text-ink-soft";
+// A select is :read-only in CSS terms, so the "fixed value" look applies to text inputs only.
+const inputOnly = "read-only:bg-sunken read-only:text-ink-soft";
 
 type FieldShellProps = { id: string; label: string; hint?: ReactNode; error?: string; children: ReactNode };
 
@@ -40,7 +42,7 @@ export const InputField = forwardRef<HTMLInputElement, InputFieldProps>(function
         id={inputId}
         aria-invalid={error ? true : undefined}
         aria-describedby={error ? `${inputId}-error` : hint ? `${inputId}-hint` : undefined}
-        className={clsx(control, error ? "border-rust-600" : "border-line-strong", className)}
+        className={clsx(control, inputOnly, error ? "border-rust-600" : "border-line-strong", className)}
         {...rest}
       />
     </FieldShell>

@@ -31,7 +31,7 @@ export function DashboardRoute() {
   return (
     <>
       <PageHeader title="Dashboard" description={`${name} · you work here as ${roleLabels[role] ?? role}.`} />
-      <div className="grid gap-6 lg:grid-cols-[1fr_20rem]">
+      <div className="grid items-start gap-6 lg:grid-cols-[1fr_20rem]">
         <Panel aria-labelledby="next-heading">
           <h2 id="next-heading" className="text-title font-semibold">
             What comes next
@@ -40,15 +40,14 @@ export function DashboardRoute() {
             This workshop has no batches or measurements yet: the screens that record and judge them are the next to arrive. Open batches and
             units awaiting review will be listed here.
           </p>
-          <ol className="mt-5 grid gap-4 sm:grid-cols-2">
-            {upcoming.map((item, index) => (
+          <ul className="mt-5 grid gap-4 sm:grid-cols-2">
+            {upcoming.map((item) => (
               <li key={item.title} className="rounded-control border border-line bg-canvas p-4">
-                <p className="text-caption font-semibold uppercase tracking-wide text-steel-600">Step {index + 1}</p>
-                <p className="mt-1 font-semibold">{item.title}</p>
+                <p className="font-semibold">{item.title}</p>
                 <p className="mt-1 text-caption text-ink-soft">{item.text}</p>
               </li>
             ))}
-          </ol>
+          </ul>
         </Panel>
         <Panel aria-labelledby="now-heading">
           <h2 id="now-heading" className="text-title font-semibold">

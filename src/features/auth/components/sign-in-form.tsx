@@ -5,6 +5,7 @@ import { signInSchema, type SignInInput } from "@shared/schemas/account";
 import { Alert } from "@/components/ui/alert";
 import { Button } from "@/components/ui/button";
 import { InputField } from "@/components/ui/field";
+import { isApiError } from "@/lib/api-client";
 import { useSignIn } from "@/lib/auth";
 import { applyServerErrors } from "@/lib/form-errors";
 
@@ -30,6 +31,10 @@ export function SignInForm({ lockedEmail, onSuccess, submitLabel = "Sign in" }: 
       await signIn.mutateAsync(values);
       await onSuccess();
     } catch (error) {
+      if (isApiError(error) && error.status === 401) {
+        setFormError("The e-mail address or the password is wrong. Check both and try again.");
+        return;
+      }
       setFormError(applyServerErrors(error, form.setError, ["email", "password"]));
     }
   });

@@ -17,14 +17,32 @@ export function WorkshopSwitcher({ workshops, activeId, createHref, onSwitched }
   const setActive = useSetActiveWorkshop();
   const [error, setError] = useState<string | null>(null);
 
+  const active = workshops.find((workshop) => workshop.id === activeId);
+  const newLink = (
+    <Link to={createHref} className="self-start text-caption text-steel-700 underline-offset-2 hover:underline">
+      New workshop…
+    </Link>
+  );
+
+  // With one workshop there is nothing to switch to: show its name in full instead of a cramped select.
+  if (workshops.length === 1 && active) {
+    return (
+      <div className="flex flex-col gap-1">
+        <p className="text-caption font-semibold text-ink-soft">Workshop</p>
+        <p className="font-semibold leading-snug text-ink">{active.name}</p>
+        {newLink}
+      </div>
+    );
+  }
+
   return (
     <div className="flex flex-col gap-1">
       <label htmlFor={id} className="text-caption font-semibold text-ink-soft">
-        Workshop
+        Switch workshop
       </label>
       <select
         id={id}
-        className="min-h-touch w-full rounded-control border border-line-strong bg-surface px-2 text-body text-ink disabled:opacity-60"
+        className="min-h-touch w-full rounded-control border border-line-strong bg-surface px-2 text-caption text-ink disabled:opacity-60"
         value={activeId ?? ""}
         disabled={setActive.isPending}
         onChange={(event) => {
@@ -38,7 +56,7 @@ export function WorkshopSwitcher({ workshops, activeId, createHref, onSwitched }
         {activeId ? null : <option value="">Choose a workshop</option>}
         {workshops.map((workshop) => (
           <option key={workshop.id} value={workshop.id}>
-            {workshop.name} · {roleLabels[workshop.role] ?? workshop.role}
+            {workshop.name} ({roleLabels[workshop.role] ?? workshop.role})
           </option>
         ))}
       </select>
@@ -47,9 +65,7 @@ export function WorkshopSwitcher({ workshops, activeId, createHref, onSwitched }
           {error}
         </p>
       ) : null}
-      <Link to={createHref} className="self-start text-caption text-steel-700 underline-offset-2 hover:underline">
-        New workshop…
-      </Link>
+      {newLink}
     </div>
   );
 }

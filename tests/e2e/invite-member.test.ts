@@ -1,0 +1,70 @@
+/**
+ * The demo owner invites a new member from the Members screen; the invitation is sent over real
+ * SMTP to the server's capture server and shows up in the Outbox, where it can be opened and read.
+ */
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { demo, launchBrowser, screenshot, signInThroughForm, startServer, type LaunchedBrowser, type RunningServer } from "../support/browser";
+
+describe("an owner invites a member and finds the mail in the outbox", () => {
+  let server: RunningServer;
+  let browser: LaunchedBrowser;
+  const invitee = "new.maker@example.com";
+
+  beforeAll(async () => {
+    server = await startServer();
+    browser = await launchBrowser();
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    await server?.stop();
+  });
+
+  it("signs in as the owner and sees Members and Outbox in the navigation", async () => {
+    const { page } = browser;
+    await signInThroughForm(page, server.baseUrl, demo.owner);
+    await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
+    const nav = page.getByRole("navigation", { name: "Main" });
+    await nav.getByRole("link", { name: "Members" }).waitFor();
+    await nav.getByRole("link", { name: "Outbox" }).waitFor();
+    await screenshot(page, "e2e-owner-dashboard");
+  });
+
+  it("rejects a malformed address in place, then sends the invitation", async () => {
+    const { page } = browser;
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Members" }).click();
+    await page.getByRole("heading", { name: "Members", level: 1 }).waitFor();
+    await page.getByRole("list", { name: "Members" }).getByText("maker@example.com").waitFor();
+
+    const form = page.getByRole("form", { name: "Invite a member" });
+    await form.getByLabel("E-mail address").fill("not-an-address");
+    await form.getByRole("button", { name: "Send invitation" }).click();
+    await form.getByText("This is not an e-mail address").waitFor();
+    await screenshot(page, "e2e-members-field-error");
+
+    await form.getByLabel("E-mail address").fill(invitee);
+    await form.getByLabel("Role").selectOption("maker");
+    await form.getByRole("button", { name: "Send invitation" }).click();
+    await form.getByText(`Invitation sent to ${invitee}`).waitFor();
+    await page.getByRole("list", { name: "Pending invitations" }).getByText(invitee).waitFor();
+    await screenshot(page, "e2e-members-invited");
+  });
+
+  it("lists the invitation mail in the outbox and opens it", async () => {
+    const { page } = browser;
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Outbox" }).click();
+    await page.getByRole("heading", { name: "Outbox", level: 1 }).waitFor();
+    const sent = page.getByRole("list", { name: "Sent mail" });
+    const item = sent.getByRole("link").filter({ hasText: `To ${invitee}` });
+    await item.waitFor();
+    await screenshot(page, "e2e-outbox");
+
+    await item.click();
+    const article = page.getByRole("article");
+    await article.getByText(invitee).first().waitFor();
+    // The mail carries the invitation link to the public landing page.
+    const body = await article.locator("pre").textContent();
+    expect(body).toMatch(new RegExp(`${server.baseUrl.replace(/[.:/]/g, "\\$&")}/invite/[^\\s]+`));
+    await screenshot(page, "e2e-outbox-message");
+  });
+});

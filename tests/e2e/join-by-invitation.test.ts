@@ -1,0 +1,92 @@
+/**
+ * The whole invitation path as two people live it: the owner invites an address, the invitee opens
+ * the link from the e-mail (read from the outbox, as captured over SMTP), creates an account with the
+ * address fixed, joins, and lands on the dashboard with the role the owner chose.
+ */
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { demo, launchBrowser, screenshot, signInThroughForm, startServer, type LaunchedBrowser, type RunningServer } from "../support/browser";
+
+describe("joining a workshop by invitation", () => {
+  let server: RunningServer;
+  let browser: LaunchedBrowser;
+  const invitee = "quality.lead@example.com";
+  let inviteLink = "";
+
+  beforeAll(async () => {
+    server = await startServer();
+    browser = await launchBrowser({ viewport: { width: 820, height: 1180 } }); // tablet, portrait
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    await server?.stop();
+  });
+
+  it("the owner invites a QA member and copies the link from the mail", async () => {
+    const { page } = browser;
+    await signInThroughForm(page, server.baseUrl, demo.owner);
+    await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
+    await page.goto(`${server.baseUrl}/app/members`);
+    const form = page.getByRole("form", { name: "Invite a member" });
+    await form.getByLabel("E-mail address").fill(invitee);
+    await form.getByLabel("Role").selectOption("qa");
+    await form.getByRole("button", { name: "Send invitation" }).click();
+    await form.getByText(`Invitation sent to ${invitee}`).waitFor();
+    await screenshot(page, "e2e-portrait-members");
+
+    await page.goto(`${server.baseUrl}/app/outbox`);
+    await page.getByRole("list", { name: "Sent mail" }).getByRole("link").filter({ hasText: `To ${invitee}` }).click();
+    const text = (await page.getByRole("article").locator("pre").textContent()) ?? "";
+    inviteLink = text.match(/https?:\/\/\S+\/invite\/\S+/)?.[0] ?? "";
+    expect(inviteLink).not.toBe("");
+
+    // The HTML part is shown sandboxed and carries the same link.
+    await page.getByRole("button", { name: "Formatted (HTML)" }).click();
+    const frame = page.frameLocator('iframe[title="Formatted message"]');
+    const href = await frame.getByRole("link").first().getAttribute("href");
+    expect(href).toBe(inviteLink);
+    await screenshot(page, "e2e-portrait-outbox-html");
+
+    await page.getByRole("button", { name: "Sign out" }).click();
+    await page.getByRole("heading", { name: "Sign in" }).waitFor();
+  });
+
+  it("the invitee sees who invited them, signs up with the address fixed, and joins", async () => {
+    const { page } = browser;
+    await page.goto(inviteLink);
+    await page.getByRole("heading", { name: `Join ${demo.workshopName}` }).waitFor();
+    await page.getByText("Mara Ellison invited you").waitFor();
+    await screenshot(page, "e2e-invitation-landing");
+
+    const signUp = page.getByRole("form", { name: "Create an account" });
+    expect(await signUp.getByLabel("E-mail").inputValue()).toBe(invitee);
+    expect(await signUp.getByLabel("E-mail").getAttribute("readonly")).not.toBeNull();
+    await signUp.getByLabel("Your name").fill("Petra Quill");
+    await signUp.getByLabel("Password").fill("short");
+    await signUp.getByRole("button", { name: "Create account" }).click();
+    await signUp.getByText("Use at least 10 characters.").waitFor();
+
+    await signUp.getByLabel("Password").fill("a-long-enough-password");
+    await signUp.getByRole("button", { name: "Create account" }).click();
+    await page.getByRole("button", { name: `Join ${demo.workshopName}` }).click();
+
+    await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
+    await page.getByText(`${demo.workshopName} · you work here as Quality.`).waitFor();
+    const links = (await page.getByRole("navigation", { name: "Main" }).getByRole("link").allTextContents()).map((t) => t.replace(/soon$/, "").trim());
+    expect(links).toEqual(["Dashboard", "Batches", "Specifications"]);
+    await screenshot(page, "e2e-portrait-qa-dashboard");
+  });
+
+  it("an accepted invitation cannot be used again", async () => {
+    const { page } = browser;
+    await page.goto(inviteLink);
+    await page.getByText("This invitation has already been accepted").waitFor();
+  });
+
+  it("an unknown invitation says plainly that it was not found", async () => {
+    const { page } = browser;
+    await page.goto(`${server.baseUrl}/invite/no-such-invitation`);
+    await page.getByRole("heading", { name: "Not found" }).waitFor();
+    await screenshot(page, "e2e-invitation-not-found");
+  });
+});

@@ -1,0 +1,59 @@
+/**
+ * The demo maker signs in through the real form and reaches the dashboard of the demo workshop,
+ * seeing only what a maker may use (shared/permissions.ts: no Members, no Outbox).
+ */
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { demo, launchBrowser, screenshot, signInThroughForm, startServer, type LaunchedBrowser, type RunningServer } from "../support/browser";
+
+describe("signing in as the demo maker", () => {
+  let server: RunningServer;
+  let browser: LaunchedBrowser;
+
+  beforeAll(async () => {
+    server = await startServer();
+    browser = await launchBrowser();
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    await server?.stop();
+  });
+
+  it("sends a signed-out visitor to the sign-in page", async () => {
+    const { page } = browser;
+    await page.goto(`${server.baseUrl}/app/members`);
+    await page.getByRole("heading", { name: "Sign in" }).waitFor();
+    expect(new URL(page.url()).pathname).toBe("/sign-in");
+    expect(new URL(page.url()).searchParams.get("redirectTo")).toBe("/app/members");
+    await screenshot(page, "e2e-sign-in");
+  });
+
+  it("says plainly when the password is wrong", async () => {
+    const { page } = browser;
+    await signInThroughForm(page, server.baseUrl, demo.maker, "not-the-password");
+    const alert = page.getByRole("alert");
+    await alert.waitFor();
+    expect((await alert.textContent())?.trim().length).toBeGreaterThan(0);
+    expect(new URL(page.url()).pathname).toBe("/sign-in");
+    await screenshot(page, "e2e-sign-in-wrong-password");
+  });
+
+  it("shows the dashboard with the maker's navigation", async () => {
+    const { page } = browser;
+    await signInThroughForm(page, server.baseUrl, demo.maker);
+    await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
+    await page.getByText(`${demo.workshopName} · you work here as Maker.`).waitFor();
+
+    const nav = page.getByRole("navigation", { name: "Main" });
+    const links = (await nav.getByRole("link").allTextContents()).map((text) => text.replace(/soon$/, "").trim());
+    expect(links).toEqual(["Dashboard", "Batches", "Specifications"]);
+    await screenshot(page, "e2e-maker-dashboard");
+  });
+
+  it("answers a page the maker may not use with a plain 403 message", async () => {
+    const { page } = browser;
+    await page.goto(`${server.baseUrl}/app/members`);
+    await page.getByRole("heading", { name: "Not available for your role" }).waitFor();
+    await screenshot(page, "e2e-maker-forbidden");
+  });
+});

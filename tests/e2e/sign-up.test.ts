@@ -1,0 +1,76 @@
+/**
+ * Open sign-up: a new person creates an account, then their workshop (becoming its owner), then a
+ * second one, and switches between them; each switch shows the chosen workshop's name and role.
+ */
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { launchBrowser, screenshot, startServer, type LaunchedBrowser, type RunningServer } from "../support/browser";
+
+describe("signing up and creating workshops", () => {
+  let server: RunningServer;
+  let browser: LaunchedBrowser;
+
+  beforeAll(async () => {
+    server = await startServer();
+    browser = await launchBrowser();
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    await server?.stop();
+  });
+
+  it("creates an account and is led to create a workshop", async () => {
+    const { page } = browser;
+    await page.goto(`${server.baseUrl}/sign-in`);
+    await page.getByRole("link", { name: "Create an account" }).click();
+    const form = page.getByRole("form", { name: "Create an account" });
+    await form.getByLabel("Your name").fill("Rhea Castellan");
+    await form.getByLabel("E-mail").fill("rhea@example.com");
+    await form.getByLabel("Password").fill("bench-and-anvil-42");
+    await form.getByRole("button", { name: "Create account" }).click();
+    await page.getByRole("heading", { name: "Create your workshop" }).waitFor();
+    await screenshot(page, "e2e-create-workshop");
+  });
+
+  it("derives the short name from the workshop name and becomes its owner", async () => {
+    const { page } = browser;
+    const form = page.getByRole("form", { name: "Create your workshop" });
+    await form.getByLabel("Workshop name").fill("Saltmarsh Bell Foundry");
+    expect(await form.getByLabel("Short name").inputValue()).toBe("saltmarsh-bell-foundry");
+    await form.getByRole("button", { name: "Create workshop" }).click();
+    await page.getByText("Saltmarsh Bell Foundry · you work here as Owner.").waitFor();
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Members" }).waitFor();
+  });
+
+  it("refuses a short name another workshop already uses, in place", async () => {
+    const { page } = browser;
+    await page.getByRole("link", { name: "New workshop…" }).click();
+    const form = page.getByRole("form", { name: "Create your workshop" });
+    await form.getByLabel("Workshop name").fill("Saltmarsh Bell Foundry");
+    await form.getByRole("button", { name: "Create workshop" }).click();
+    await form.getByText("Another workshop already uses this short name").waitFor();
+    await screenshot(page, "e2e-create-workshop-slug-taken");
+  });
+
+  it("switches between two workshops", async () => {
+    const { page } = browser;
+    const form = page.getByRole("form", { name: "Create your workshop" });
+    await form.getByLabel("Workshop name").fill("Saltmarsh Chimes");
+    await form.getByLabel("Short name").fill("saltmarsh-chimes");
+    await form.getByRole("button", { name: "Create workshop" }).click();
+    await page.getByText("Saltmarsh Chimes · you work here as Owner.").waitFor();
+
+    const switcher = page.getByLabel("Switch workshop");
+    const options = await switcher.locator("option").allTextContents();
+    expect(options.sort()).toEqual(["Saltmarsh Bell Foundry (Owner)", "Saltmarsh Chimes (Owner)"]);
+    await switcher.selectOption({ label: "Saltmarsh Bell Foundry (Owner)" });
+    await page.getByText("Saltmarsh Bell Foundry · you work here as Owner.").waitFor();
+    await screenshot(page, "e2e-switched-workshop");
+
+    // The members list follows the active workshop: only its creator is in it.
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Members" }).click();
+    const members = page.getByRole("list", { name: "Members" });
+    await members.getByText("rhea@example.com").waitFor();
+    expect(await members.getByRole("listitem").count()).toBe(1);
+  });
+});
