@@ -231,7 +231,7 @@ export async function renderCertificatePdf(input: CertificateData): Promise<Buff
 function drawHeader(doc: Doc, data: CertificateData): void {
   const y = 30;
   doc.save();
-  doc.font("semibold").fontSize(9).fillColor(COLOUR.ink).text(data.workshop.name, MARGIN.left, y, { width: CONTENT_WIDTH / 2, lineBreak: false });
+  doc.font("semibold").fontSize(9).fillColor(COLOUR.ink).text(data.workshop.name, MARGIN.left, y, { width: CONTENT_WIDTH / 2 - 8, height: 11, ellipsis: true });
   doc
     .font("regular")
     .fontSize(8.5)
@@ -368,6 +368,7 @@ function drawParticulars(doc: Doc, data: CertificateData): void {
     ],
     ["Support while struck", supportWords(c.support)],
     ["Strikes combined", `${c.strikes} (median of the strikes)`],
+    ["Place of measurement", c.location ?? "at the issuing workshop"],
   ];
   sectionHeading(doc, "Particulars", 150);
   const colW = (CONTENT_WIDTH - 24) / 2;

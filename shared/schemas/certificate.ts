@@ -116,6 +116,8 @@ export const certificateDataSchema = z.object({
     support: text("The support condition"),
     /** Number of strikes combined into the results. */
     strikes: z.number().int().positive(),
+    /** Where the unit was measured (ISO/IEC 17025 §7.8.2.1 asks for it); absent: at the issuing workshop. */
+    location: z.string().trim().min(1).max(200).nullable().optional(),
   }),
   measuredFrom: isoDate,
   measuredTo: isoDate,

@@ -53,7 +53,7 @@ export function buildCertificateData(overrides: Partial<CertificateData> = {}): 
       summary:
         "Each strike is recorded as uncompressed audio; the partials are located in a windowed, zero-padded spectrum and refined with a damped-sinusoid fit that gives frequency and decay together. The unit's result is the median over its strikes, with the spread and the fit uncertainty combined into U.",
     },
-    conditions: { temperatureC: 21.4, referenceTemperatureC: 20, support: "suspended", strikes: 3 },
+    conditions: { temperatureC: 21.4, referenceTemperatureC: 20, support: "suspended", strikes: 3, location: "Test bench 2, Harrowgate works" },
     measuredFrom: "2026-11-28",
     measuredTo: "2026-11-29",
     results: [

@@ -29,6 +29,7 @@ function requiredItems(d: CertificateData): [string, string][] {
     ["ambient temperature with unit", `${d.conditions.temperatureC} °C`],
     ["support condition", d.conditions.support],
     ["number of strikes", `Strikes combined ${d.conditions.strikes}`],
+    ["place of measurement", `Place of measurement ${d.conditions.location ?? "at the issuing workshop"}`],
     ["measurement date (from)", d.measuredFrom],
     ["measurement date (to)", d.measuredTo],
     ["issue date and time", "Date of issue 2026-11-30 14:05 UTC"],
