@@ -221,6 +221,8 @@ describe("capability (Montgomery, Introduction to Statistical Quality Control)",
     expect(c.sigmaWithin).toBeCloseTo(1 / 1.128, 12);
     expect(c.cp).toBeCloseTo(4 / (6 / 1.128), 12);
     expect(c.cpk).toBeCloseTo(1.5 / (3 / 1.128), 12); // the lower side is nearer
+    expect(c.cpl).toBeCloseTo(1.5 / (3 / 1.128), 12);
+    expect(c.cpu).toBeCloseTo(2.5 / (3 / 1.128), 12);
     expect(c.sigmaOverall).toBeCloseTo(Math.sqrt(1 / 3), 12);
     expect(c.pp).toBeCloseTo(4 / (6 * Math.sqrt(1 / 3)), 12);
     expect(c.ppk).toBeCloseTo(1.5 / (3 * Math.sqrt(1 / 3)), 12);
@@ -279,6 +281,8 @@ describe("t60LowerCapability (one-sided Cpl, Montgomery; log of T60)", () => {
     const c = t60LowerCapability([e, e * e, e, e * e], 1);
     expect(c.mean).toBeCloseTo(1.5, 12);
     expect(c.cpk).toBeCloseTo(1.5 / (3 / 1.128), 12);
+    expect(c.cpl).toBe(c.cpk);
+    expect(c.cpu).toBeNull();
     expect(c.ppk).toBeCloseTo(1.5 / (3 * Math.sqrt(1 / 3)), 12);
     expect(c.cp).toBeNull(); // one-sided: no Cp
     expect(c.lowConfidence).toBe(true);

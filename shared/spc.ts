@@ -320,8 +320,12 @@ export interface CapabilityIndices {
   sigmaOverall: number;
   /** Cp = (USL − LSL)/(6σ̂within); null for a one-sided limit or σ̂ = 0. */
   cp: number | null;
-  /** Cpk = min(USL − μ, μ − LSL)/(3σ̂within); null when σ̂ = 0. */
+  /** Cpk = min(Cpl, Cpu) with σ̂within; null when σ̂ = 0. */
   cpk: number | null;
+  /** Cpl = (μ − LSL)/(3σ̂within); null without a lower limit or when σ̂ = 0. */
+  cpl: number | null;
+  /** Cpu = (USL − μ)/(3σ̂within); null without an upper limit or when σ̂ = 0. */
+  cpu: number | null;
   /** Pp: as Cp with the overall standard deviation. */
   pp: number | null;
   /** Ppk: as Cpk with the overall standard deviation. */
@@ -365,20 +369,22 @@ export function capability(values: readonly number[], limits: SpecLimits): Capab
   const indices = (sigma: number, label: string) => {
     if (!(sigma > 0)) {
       notes.push(`The ${label} standard deviation is 0 (all values equal), so its indices are undefined.`);
-      return { p: null, pk: null };
+      return { p: null, pk: null, pl: null, pu: null };
     }
-    const upper = usl !== undefined ? (usl - m) / (3 * sigma) : Infinity;
-    const lower = lsl !== undefined ? (m - lsl) / (3 * sigma) : Infinity;
+    const pu = usl !== undefined ? (usl - m) / (3 * sigma) : null;
+    const pl = lsl !== undefined ? (m - lsl) / (3 * sigma) : null;
     return {
       p: lsl !== undefined && usl !== undefined ? (usl - lsl) / (6 * sigma) : null,
-      pk: Math.min(upper, lower),
+      pk: Math.min(pu ?? Infinity, pl ?? Infinity),
+      pl,
+      pu,
     };
   };
   const within = indices(sigmaWithin, "within-process");
   const overall = indices(sigmaOverall, "overall");
   const lowConfidence = values.length < LOW_CONFIDENCE_BELOW;
   if (lowConfidence) notes.push(`Only ${values.length} values (fewer than ${LOW_CONFIDENCE_BELOW}): treat the indices as low confidence.`);
-  return { n: values.length, mean: m, sigmaWithin, sigmaOverall, cp: within.p, cpk: within.pk, pp: overall.p, ppk: overall.pk, lowConfidence, notes };
+  return { n: values.length, mean: m, sigmaWithin, sigmaOverall, cp: within.p, cpk: within.pk, cpl: within.pl, cpu: within.pu, pp: overall.p, ppk: overall.pk, lowConfidence, notes };
 }
 
 /**
@@ -395,7 +401,7 @@ export function toleranceCapability(deviationsCents: readonly number[], toleranc
 
 /**
  * Lower capability Cpl of ln T60 against a minimum T60 (s): (mean(ln T60) − ln min)/(3σ) with σ̂ from
- * the moving ranges of ln T60 (cpk) and the overall σ (ppk). T60 is close to log-normal across units
+ * the moving ranges of ln T60 (`cpl`, equal to `cpk` here) and the overall σ (`ppk`). T60 is close to log-normal across units
  * (it is a positive, multiplicative quantity), hence the log. The index does not depend on the log
  * base: ln and log₁₀ differ by a constant factor that cancels.
  * @throws SpcInputError for a T60 or minimum that is not a positive number.
