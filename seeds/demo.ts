@@ -2,11 +2,19 @@
  * The invented demo workshop (DESIGN.md §9): seeded on an empty database unless SEED_DEMO=0.
  * Everything here is made up: the workshops, the people and their addresses.
  */
-import { randomUUID } from "node:crypto";
-import { count } from "drizzle-orm";
+import { createHash, randomUUID } from "node:crypto";
+import { writeFileSync } from "node:fs";
+import path from "node:path";
+import { count, eq } from "drizzle-orm";
 import type { AppDeps } from "../server/app.ts";
-import { member, organization, user } from "../server/db/schema.ts";
+import { member, organization, unit, user, workshopProfile } from "../server/db/schema.ts";
+import { createBatch } from "../server/services/batches.ts";
+import { createSpec } from "../server/services/specs.ts";
+import { insertStrike } from "../server/services/strikes.ts";
 import type { RoleName } from "../shared/permissions.ts";
+import { specInputSchema } from "../shared/schemas/spec.ts";
+import { specTemplate } from "../shared/spec-templates.ts";
+import { prng, synthStrikeWav } from "./synth.ts";
 
 export const DEMO_PASSWORD = "tinelog-demo";
 
@@ -53,5 +61,74 @@ export async function seedDemo(deps: AppDeps): Promise<DemoIds | null> {
       )
       .run();
   });
-  return { workshopId, otherWorkshopId, users };
+  db.insert(workshopProfile)
+    .values([
+      { workshopId, address: "Unit 4, Millrace Yard, Brightwater BW3 7QT (invented address)", sendingEmail: "certificates@brightwater.example", qualityEmail: "quality@brightwater.example", certificatePrefix: "BTW" },
+      { workshopId: otherWorkshopId, address: "2 Fernhollow Lane (invented address)", sendingEmail: "office@fernhollow.example", qualityEmail: "office@fernhollow.example", certificatePrefix: "FHC" },
+    ])
+    .run();
+  const ids = { workshopId, otherWorkshopId, users };
+  seedDemoLedger(deps, ids, { strikes: deps.env.DEMO_STRIKES });
+  return ids;
+}
+
+/**
+ * A living ledger for a first look: a fork specification, one batch fully struck (two units out of
+ * tolerance, waiting for QA's disposition), and one batch still to be measured.
+ */
+function seedDemoLedger(deps: AppDeps, ids: DemoIds, opts: { strikes: boolean }) {
+  const { db, storage } = deps;
+  const qa = { workshopId: ids.workshopId, userId: ids.users["qa@example.com"] };
+  const maker = { workshopId: ids.workshopId, userId: ids.users["maker@example.com"] };
+  const template = specTemplate("tuning_fork");
+  const spec = createSpec(
+    db,
+    qa,
+    specInputSchema.parse({
+      ...template,
+      name: "BTW-440 concert fork, steel",
+      description: "Brightwater's A4 concert fork (invented demo product). " + (template.description ?? ""),
+      lengthMm: 80,
+      strikesRequired: 1,
+      partials: [
+        { ...template.partials[0], targetHz: 440, toleranceCents: 5, minT60S: 20 },
+        { ...template.partials[1], required: false },
+      ],
+    }),
+  );
+  const measured = createBatch(db, maker, { code: "BTW-2611", specId: spec.id, quantity: 10, range: { from: "F-0001", to: "F-0010" }, notes: "November run, steel bar stock lot 7 (demo)." });
+  createBatch(db, maker, { code: "BTW-2612", specId: spec.id, quantity: 6, range: { from: "F-0011", to: "F-0016" }, notes: "December run (demo): strike each fork and upload." });
+  if (!opts.strikes) return;
+
+  // Deviations in cents of the demo forks (invented): two out of ±5 cents, the rest within.
+  const deviations = [1.2, -0.8, 2.5, -9.4, 0.3, 3.1, -1.9, 12.6, -2.7, 0.9];
+  const rand = prng(2611);
+  const units = db.select().from(unit).where(eq(unit.batchId, measured.id)).all().sort((a, b) => a.position - b.position);
+  units.forEach((u, i) => {
+    const f0 = 440 * 2 ** (deviations[i] / 1200);
+    const wav = synthStrikeWav({
+      durationS: 4,
+      seed: 1000 + i,
+      humHz: i % 3 === 0 ? 50 : undefined,
+      partials: [
+        { frequencyHz: f0, amplitude: 0.3, tauS: 4.5 + rand() * 1.5 },
+        { frequencyHz: f0 * (6.08 + rand() * 0.1), amplitude: 0.08, tauS: 0.35 + rand() * 0.1 },
+      ],
+      noise: 2e-4,
+    });
+    const temp = path.join(storage.incoming, `${randomUUID()}.part`);
+    writeFileSync(temp, wav);
+    const fileKey = storage.keep(temp, ids.workshopId);
+    insertStrike(db, maker, {
+      unitId: u.id,
+      originalName: `${u.serial}-strike-1.wav`,
+      sha256: createHash("sha256").update(wav).digest("hex"),
+      fileKey,
+      sizeBytes: wav.length,
+      format: { sampleRate: 48000, channels: 1, bitsPerSample: 16, encoding: "pcm", durationS: 4 },
+      temperatureC: 21 + Math.round(rand() * 20) / 10,
+      support: "hand",
+    });
+  });
+  deps.queue.notify();
 }

@@ -17,8 +17,14 @@ import type { Mailer } from "./mail/mailer.ts";
 import { contextMiddleware } from "./middleware/context.ts";
 import { apiNotFound, errorHandler } from "./middleware/errors.ts";
 import { sameOriginJson } from "./middleware/origin.ts";
+import { batchRoutes } from "./routes/batches.ts";
 import { mailRoutes } from "./routes/mail.ts";
 import { sessionRoutes } from "./routes/session.ts";
+import { specRoutes } from "./routes/specs.ts";
+import { strikeRoutes } from "./routes/strikes.ts";
+import { workshopRoutes } from "./routes/workshop.ts";
+import type { AnalysisQueue } from "./services/analysis-queue.ts";
+import type { Storage } from "./services/storage.ts";
 
 export type AppDeps = {
   env: Env;
@@ -27,13 +33,15 @@ export type AppDeps = {
   auth: Auth;
   mailer: Mailer;
   logger: Logger;
+  storage: Storage;
+  queue: AnalysisQueue;
 };
 
 const clientDir = fileURLToPath(new URL("../dist/client", import.meta.url));
 
 /** The feature routers, in one list: the authorization matrix test walks them. */
 export function apiRouters(deps: AppDeps) {
-  return [sessionRoutes(deps), mailRoutes(deps)];
+  return [sessionRoutes(deps), workshopRoutes(deps), mailRoutes(deps), specRoutes(deps), batchRoutes(deps), strikeRoutes(deps)];
 }
 
 export function createApp(deps: AppDeps) {
@@ -58,6 +66,13 @@ export function createApp(deps: AppDeps) {
   );
   app.use(pinoHttp({ logger: deps.logger, autoLogging: { ignore: (req) => !req.url?.startsWith("/api") } }));
 
+  // better-auth sees a Web Request without the socket, so it rate-limits by X-Forwarded-For. Give it
+  // the client address Express resolved (trusting forwarded headers only from loopback proxies), so a
+  // client can neither spoof its way past the limit nor share one bucket with everyone.
+  app.use("/api/auth", (req, _res, next) => {
+    req.headers["x-forwarded-for"] = req.ip ?? req.socket.remoteAddress ?? "unknown";
+    next();
+  });
   // better-auth reads its own body, so it goes before express.json().
   app.all("/api/auth/{*any}", toNodeHandler(deps.auth));
 

@@ -9,6 +9,10 @@ import { createLogger, type Logger } from "./logger.ts";
 import { startCaptureServer, type CaptureServer } from "./mail/capture.ts";
 import { createMailer } from "./mail/mailer.ts";
 import type { AppDeps } from "./app.ts";
+import { createInProcessQueue } from "./services/analysis-queue.ts";
+import { createStorage } from "./services/storage.ts";
+import { createAnalysisPool } from "./workers/analysis-pool.ts";
+import { availableParallelism } from "node:os";
 import { seedDemo } from "../seeds/demo.ts";
 
 export type Runtime = AppDeps & { capture: CaptureServer | null; close(): Promise<void> };
@@ -19,12 +23,19 @@ export async function bootstrap(env: Env, logger: Logger = createLogger(env.LOG_
   const smtpUrl = env.SMTP_URL ?? `smtp://127.0.0.1:${capture!.port}?ignoreTLS=true`;
   const mailer = createMailer(db, { smtpUrl, defaultFrom: env.MAIL_FROM });
   const auth = createAuth({ db, env, mailer });
-  const deps: AppDeps = { env, db, sqlite, auth, mailer, logger };
+  const storage = createStorage(env.DATA_DIR, { quotaBytes: env.WORKSHOP_QUOTA_MB * 1024 * 1024, minFreeBytes: env.MIN_FREE_DISK_MB * 1024 * 1024 });
+  storage.sweepIncoming();
+  // One analysis thread per spare core: the event loop keeps a core for HTTP.
+  const threads = env.ANALYSIS_THREADS ?? Math.max(1, availableParallelism() - 1);
+  const pool = createAnalysisPool({ maxThreads: threads, maxQueue: threads * 4 });
+  const queue = createInProcessQueue({ db, sqlite, storage, logger, pool, concurrency: threads * 2 });
+  const deps: AppDeps = { env, db, sqlite, auth, mailer, logger, storage, queue };
   if (env.SEED_DEMO) await seedDemo(deps);
   return {
     ...deps,
     capture,
     async close() {
+      await queue.close();
       mailer.close();
       await capture?.close();
       sqlite.close();

@@ -22,6 +22,8 @@ const envSchema = z.object({
   MAIL_FROM: z.string().default("Tinelog <no-reply@tinelog.invalid>"),
   BETTER_AUTH_SECRET: z.string().min(32, "must be at least 32 characters").optional(),
   SEED_DEMO: boolish.default(true),
+  /** With the demo seed: synthesise and analyse the demo strikes (tests that need a quiet start set 0). */
+  DEMO_STRIKES: boolish.default(true),
   LOG_LEVEL: z.enum(["fatal", "error", "warn", "info", "debug", "trace", "silent"]).default("info"),
   UPLOAD_LIMIT_MB: z.coerce.number().positive().default(100),
   WORKSHOP_QUOTA_MB: z.coerce.number().positive().default(2048),

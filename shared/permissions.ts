@@ -45,7 +45,8 @@ const ownerGrants = {
   ...qaGrants,
   workshop: ["read", "update"],
   mail: ["read"],
-  organization: ["update", "delete"],
+  // No "delete": a workshop holds a quality record that must be kept.
+  organization: ["update"],
   member: ["create", "update", "delete"],
   invitation: ["create", "cancel"],
   ac: ["read"],

@@ -7,9 +7,10 @@ import { can, type Action, type Resource } from "../../shared/permissions.ts";
 import { forbidden, HttpError, unauthenticated } from "../http-error.ts";
 import type { Workshop } from "./context.ts";
 
-export const requireUser: RequestHandler = (req, _res, next) => {
-  next(req.ctx.user ? undefined : unauthenticated());
-};
+export const requireUser: RequestHandler = Object.assign(
+  (req: Request, _res: Response, next: NextFunction) => next(req.ctx.user ? undefined : unauthenticated()),
+  { permission: "signed-in" },
+);
 
 export function requirePermission<R extends Resource>(resource: R, action: Action<R>): RequestHandler {
   const guard = (req: Request, _res: Response, next: NextFunction) => {

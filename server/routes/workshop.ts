@@ -1,0 +1,62 @@
+/** The active workshop: its profile (used on certificates and mail), dashboard and audit trail. */
+import { and, desc, eq } from "drizzle-orm";
+import { Router } from "express";
+import { z } from "zod";
+import { auditEvent, user, workshopProfile } from "../db/schema.ts";
+import { requirePermission, userOf, workshopOf } from "../middleware/guards.ts";
+import { audit } from "../services/audit.ts";
+import { listBatches } from "../services/batches.ts";
+import type { AppDeps } from "../app.ts";
+
+export const workshopProfileSchema = z.object({
+  address: z.string().trim().max(500),
+  sendingEmail: z.email("Enter a valid e-mail address").or(z.literal("")),
+  qualityEmail: z.email("Enter a valid e-mail address").or(z.literal("")),
+  certificatePrefix: z.string().trim().regex(/^[A-Z0-9-]{1,12}$/, "Capital letters, digits and - (at most 12)"),
+});
+
+export function workshopRoutes({ db }: AppDeps) {
+  const r = Router();
+
+  r.get("/workshop", requirePermission("workshop", "read"), (req, res) => {
+    const w = workshopOf(req);
+    const p = db.select().from(workshopProfile).where(eq(workshopProfile.workshopId, w.id)).get();
+    res.json({ ...w, profile: { address: p?.address ?? "", sendingEmail: p?.sendingEmail ?? "", qualityEmail: p?.qualityEmail ?? "", certificatePrefix: p?.certificatePrefix ?? "TL" } });
+  });
+
+  r.put("/workshop/profile", requirePermission("workshop", "update"), (req, res) => {
+    const w = workshopOf(req);
+    const input = workshopProfileSchema.parse(req.body);
+    db.transaction((tx) => {
+      const before = tx.select().from(workshopProfile).where(eq(workshopProfile.workshopId, w.id)).get() ?? null;
+      tx.insert(workshopProfile).values({ workshopId: w.id, ...input }).onConflictDoUpdate({ target: workshopProfile.workshopId, set: { ...input, updatedAt: new Date() } }).run();
+      audit(tx, { workshopId: w.id, userId: userOf(req).id }, "workshop.profile", "workshop", w.id, { before, after: input });
+    });
+    res.json({ ok: true });
+  });
+
+  r.get("/dashboard", requirePermission("batch", "read"), (req, res) => {
+    const batches = listBatches(db, workshopOf(req).id);
+    res.json({
+      openBatches: batches.filter((b) => b.state !== "released"),
+      awaitingReview: batches.reduce((n, b) => n + (b.state !== "released" ? b.outOfTolerance + b.inconclusive : 0), 0),
+      released: batches.filter((b) => b.state === "released").length,
+    });
+  });
+
+  r.get("/audit", requirePermission("audit", "read"), (req, res) => {
+    const w = workshopOf(req);
+    const entityId = typeof req.query.entityId === "string" ? req.query.entityId : undefined;
+    const rows = db
+      .select({ e: auditEvent, actor: user.name })
+      .from(auditEvent)
+      .leftJoin(user, eq(user.id, auditEvent.actorId))
+      .where(entityId ? and(eq(auditEvent.workshopId, w.id), eq(auditEvent.entityId, entityId)) : eq(auditEvent.workshopId, w.id))
+      .orderBy(desc(auditEvent.id))
+      .limit(500)
+      .all();
+    res.json({ events: rows.map(({ e, actor }) => ({ id: e.id, action: e.action, entity: e.entity, entityId: e.entityId, before: e.before, after: e.after, at: e.at.toISOString(), actor: actor ?? "Tinelog" })) });
+  });
+
+  return r;
+}

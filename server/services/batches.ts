@@ -1,0 +1,243 @@
+/** Batches, their units and the ledger view (units with their latest evaluation). */
+import { randomUUID } from "node:crypto";
+import { and, asc, desc, eq, inArray, max } from "drizzle-orm";
+import type { BatchDetail, BatchSummary, CreateBatchInput, AddUnitsInput, LedgerRow, DispositionDecision } from "../../shared/schemas/batch.ts";
+import type { EvaluationView } from "../../shared/schemas/evaluation.ts";
+import type { Family } from "../../shared/schemas/spec.ts";
+import { expandSerialRange, SerialRangeError } from "../../shared/serials.ts";
+import type { Db, Sqlite } from "../db/client.ts";
+import { batch, disposition, evaluation, specVersion, specPartial, strike, unit, user } from "../db/schema.ts";
+import { badRequest, conflict, HttpError, notFound } from "../http-error.ts";
+import { audit, type Actor } from "./audit.ts";
+import { appendToChain } from "./ledger-chain.ts";
+
+const CLOSING_DECISIONS: DispositionDecision[] = ["use_as_is", "scrap"];
+
+export function findBatch(db: Db, workshopId: string, batchId: string) {
+  const row = db.select().from(batch).where(and(eq(batch.id, batchId), eq(batch.workshopId, workshopId))).get();
+  if (!row) throw notFound("That batch");
+  return row;
+}
+
+function specOf(db: Db, versionId: string) {
+  const v = db.select().from(specVersion).where(eq(specVersion.id, versionId)).get()!;
+  return { id: v.specId, name: v.name, version: v.version, versionId: v.id, family: v.family as Family };
+}
+
+/** The latest evaluation of each unit, keyed by unit id. */
+export function latestEvaluations(db: Db, unitIds: string[]): Map<string, EvaluationView> {
+  const out = new Map<string, EvaluationView>();
+  if (!unitIds.length) return out;
+  const rows = db.select().from(evaluation).where(inArray(evaluation.unitId, unitIds)).orderBy(asc(evaluation.createdAt), asc(evaluation.id)).all();
+  for (const r of rows) out.set(r.unitId, { ...(r.detail as EvaluationView), id: r.id, unitId: r.unitId, specVersionId: r.specVersionId, verdict: r.verdict, createdAt: r.createdAt.toISOString() });
+  return out;
+}
+
+function latestDispositions(db: Db, unitIds: string[]) {
+  const out = new Map<string, { decision: DispositionDecision; reason: string; at: Date; by: string; evaluationId: string | null }>();
+  if (!unitIds.length) return out;
+  const rows = db
+    .select({ d: disposition, by: user.name })
+    .from(disposition)
+    .leftJoin(user, eq(user.id, disposition.decidedBy))
+    .where(inArray(disposition.unitId, unitIds))
+    .orderBy(asc(disposition.createdAt))
+    .all();
+  for (const { d, by } of rows) out.set(d.unitId, { decision: d.decision, reason: d.reason, at: d.createdAt, by: by ?? "unknown", evaluationId: d.evaluationId });
+  return out;
+}
+
+function ledgerRows(db: Db, batchId: string): LedgerRow[] {
+  const units = db.select().from(unit).where(eq(unit.batchId, batchId)).orderBy(asc(unit.position)).all();
+  const ids = units.map((u) => u.id);
+  const evals = latestEvaluations(db, ids);
+  const disps = latestDispositions(db, ids);
+  const strikes = ids.length
+    ? db.select({ unitId: strike.unitId, state: strike.state, at: strike.uploadedAt }).from(strike).where(inArray(strike.unitId, ids)).all()
+    : [];
+  return units.map((u) => {
+    const mine = strikes.filter((s) => s.unitId === u.id);
+    const ev = evals.get(u.id) ?? null;
+    const fund = ev?.requirements.find((r) => r.isFundamental) ?? ev?.requirements[0] ?? null;
+    const overtone = ev?.requirements.find((r) => !r.isFundamental && r.measuredRatio != null) ?? null;
+    const d = disps.get(u.id);
+    // A disposition only counts for the evaluation it was made on; a new strike reopens the unit.
+    const disp = d && ev && d.evaluationId === ev.id ? d : null;
+    const pending = mine.filter((s) => s.state === "queued" || s.state === "analysing").length;
+    const closed = pending === 0 && ev !== null && (ev.verdict === "within_tolerance" || (disp !== null && CLOSING_DECISIONS.includes(disp.decision)));
+    const lastAt = mine.reduce<Date | null>((m, s) => (!m || s.at > m ? s.at : m), null);
+    return {
+      id: u.id,
+      serial: u.serial,
+      customerName: u.customerName,
+      customerEmail: u.customerEmail,
+      strikes: mine.length,
+      pendingStrikes: pending,
+      lastMeasuredAt: lastAt?.toISOString() ?? null,
+      verdict: ev?.verdict ?? null,
+      fundamentalHz: fund?.measuredHz ?? null,
+      deviationCents: fund?.deviationCents ?? null,
+      overtoneRatio: overtone?.measuredRatio ?? null,
+      t60S: fund?.t60S ?? null,
+      q: fund?.q ?? null,
+      disposition: disp ? { decision: disp.decision, reason: disp.reason, at: disp.at.toISOString(), by: disp.by } : null,
+      open: !closed,
+    };
+  });
+}
+
+function summarize(db: Db, row: typeof batch.$inferSelect, rows: LedgerRow[]): BatchSummary {
+  const releasedBy = row.releasedBy ? db.select({ id: user.id, name: user.name }).from(user).where(eq(user.id, row.releasedBy)).get() ?? null : null;
+  return {
+    id: row.id,
+    code: row.code,
+    state: row.state,
+    quantity: row.quantity,
+    units: rows.length,
+    measured: rows.filter((r) => r.verdict !== null).length,
+    withinTolerance: rows.filter((r) => r.verdict === "within_tolerance").length,
+    outOfTolerance: rows.filter((r) => r.verdict === "out_of_tolerance").length,
+    inconclusive: rows.filter((r) => r.verdict === "inconclusive").length,
+    spec: specOf(db, row.specVersionId),
+    createdAt: row.createdAt.toISOString(),
+    releasedAt: row.releasedAt?.toISOString() ?? null,
+    releasedBy,
+  };
+}
+
+export function listBatches(db: Db, workshopId: string): BatchSummary[] {
+  return db
+    .select()
+    .from(batch)
+    .where(eq(batch.workshopId, workshopId))
+    .orderBy(desc(batch.createdAt))
+    .all()
+    .map((b) => summarize(db, b, ledgerRows(db, b.id)));
+}
+
+export function getBatch(db: Db, workshopId: string, batchId: string): BatchDetail {
+  const row = findBatch(db, workshopId, batchId);
+  const rows = ledgerRows(db, row.id);
+  const partials = db.select().from(specPartial).where(eq(specPartial.specVersionId, row.specVersionId)).orderBy(asc(specPartial.position)).all();
+  const fund = partials.find((p) => p.isFundamental) ?? partials[0];
+  return { ...summarize(db, row, rows), notes: row.notes, rows, fundamentalToleranceCents: fund?.toleranceCents ?? null, minT60S: fund?.minT60S ?? null };
+}
+
+function serialsOf(input: { serials?: string[]; range?: { from: string; to: string } }): string[] {
+  const list = [...(input.serials ?? [])];
+  if (input.range) {
+    try {
+      list.push(...expandSerialRange(input.range.from, input.range.to));
+    } catch (error) {
+      if (error instanceof SerialRangeError) throw badRequest(error.message, { range: error.message });
+      throw error;
+    }
+  }
+  const dupes = list.filter((s, i) => list.indexOf(s) !== i);
+  if (dupes.length) throw badRequest(`These serials are listed twice: ${[...new Set(dupes)].slice(0, 10).join(", ")}.`, { serials: "Duplicate serials" });
+  return list;
+}
+
+function insertUnits(db: Db, workshopId: string, batchId: string, serials: string[], customer: { customerName?: string; customerEmail?: string }) {
+  if (!serials.length) return;
+  const taken = db
+    .select({ serial: unit.serial })
+    .from(unit)
+    .where(and(eq(unit.workshopId, workshopId), inArray(unit.serial, serials)))
+    .all()
+    .map((u) => u.serial);
+  if (taken.length) {
+    throw conflict(`These serials already exist in this workshop: ${taken.slice(0, 10).join(", ")}${taken.length > 10 ? ` and ${taken.length - 10} more` : ""}.`, { serials: "Overlaps existing units" });
+  }
+  const [{ last }] = db.select({ last: max(unit.position) }).from(unit).where(eq(unit.batchId, batchId)).all();
+  const start = (last ?? -1) + 1;
+  for (let i = 0; i < serials.length; i += 500) {
+    db.insert(unit)
+      .values(serials.slice(i, i + 500).map((serial, j) => ({
+        id: randomUUID(),
+        workshopId,
+        batchId,
+        serial,
+        position: start + i + j,
+        customerName: customer.customerName || null,
+        customerEmail: customer.customerEmail || null,
+      })))
+      .run();
+  }
+}
+
+export function createBatch(db: Db, actor: Actor, input: CreateBatchInput): BatchDetail {
+  const versions = db
+    .select()
+    .from(specVersion)
+    .where(and(eq(specVersion.specId, input.specId), eq(specVersion.workshopId, actor.workshopId)))
+    .orderBy(desc(specVersion.version))
+    .all();
+  if (!versions.length) throw badRequest("Choose a specification of this workshop.", { specId: "Unknown specification" });
+  const version = input.specVersion ? versions.find((v) => v.version === input.specVersion) : versions[0];
+  if (!version) throw badRequest(`The specification has no version ${input.specVersion}.`, { specVersion: "Unknown version" });
+  const exists = db.select({ id: batch.id }).from(batch).where(and(eq(batch.workshopId, actor.workshopId), eq(batch.code, input.code))).get();
+  if (exists) throw conflict(`A batch with code ${input.code} already exists.`, { code: "Already used" });
+  const serials = input.range ? serialsOf({ range: input.range }) : [];
+  if (serials.length > input.quantity) throw badRequest(`The serial range holds ${serials.length} units but the quantity is ${input.quantity}.`, { range: "More serials than the quantity" });
+  const id = randomUUID();
+  db.transaction((tx) => {
+    tx.insert(batch).values({ id, workshopId: actor.workshopId, code: input.code, specVersionId: version.id, quantity: input.quantity, notes: input.notes, createdBy: actor.userId }).run();
+    insertUnits(tx as unknown as Db, actor.workshopId, id, serials, {});
+    audit(tx, actor, "batch.create", "batch", id, { after: { code: input.code, specVersionId: version.id, quantity: input.quantity, units: serials.length } });
+  });
+  return getBatch(db, actor.workshopId, id);
+}
+
+export function addUnits(db: Db, actor: Actor, batchId: string, input: AddUnitsInput): BatchDetail {
+  const b = findBatch(db, actor.workshopId, batchId);
+  if (b.state === "released") throw conflict(`Batch ${b.code} is released; units can no longer be added.`);
+  const serials = serialsOf(input);
+  db.transaction((tx) => {
+    insertUnits(tx as unknown as Db, actor.workshopId, batchId, serials, input);
+    audit(tx, actor, "batch.add_units", "batch", batchId, { after: { serials: serials.length, first: serials[0], last: serials.at(-1) } });
+  });
+  return getBatch(db, actor.workshopId, batchId);
+}
+
+export function markInReview(db: Db, actor: Actor, batchId: string): BatchDetail {
+  const b = findBatch(db, actor.workshopId, batchId);
+  if (b.state !== "open") throw conflict(`Batch ${b.code} is ${b.state.replace("_", " ")}, not open.`);
+  db.transaction((tx) => {
+    tx.update(batch).set({ state: "in_review" }).where(eq(batch.id, batchId)).run();
+    audit(tx, actor, "batch.review", "batch", batchId, { before: { state: b.state }, after: { state: "in_review" } });
+  });
+  return getBatch(db, actor.workshopId, batchId);
+}
+
+export function releaseBatch(db: Db, sqlite: Sqlite, actor: Actor, batchId: string): BatchDetail {
+  const b = findBatch(db, actor.workshopId, batchId);
+  if (b.state === "released") throw conflict(`Batch ${b.code} was already released.`);
+  const rows = ledgerRows(db, batchId);
+  if (!rows.length) throw conflict(`Batch ${b.code} has no units to release.`);
+  const open = rows.filter((r) => r.open);
+  if (open.length) {
+    const list = open.slice(0, 20).map((r) => `${r.serial} (${r.verdict ? r.verdict.replaceAll("_", " ") + ", no disposition" : r.pendingStrikes ? "analysis pending" : "not measured"})`);
+    throw new HttpError(409, "conflict", `${open.length} unit${open.length > 1 ? "s are" : " is"} still open: ${list.join(", ")}${open.length > 20 ? ", …" : ""}. Measure them, or record a disposition, before release.`);
+  }
+  db.transaction((tx) => {
+    tx.update(batch).set({ state: "released", releasedBy: actor.userId, releasedAt: new Date() }).where(eq(batch.id, batchId)).run();
+    appendToChain(sqlite, actor.workshopId, "release", batchId);
+    audit(tx, actor, "batch.release", "batch", batchId, { before: { state: b.state }, after: { state: "released" } });
+  });
+  return getBatch(db, actor.workshopId, batchId);
+}
+
+/** The batch ledger as CSV (RFC 4180 quoting), one row per unit. */
+export function ledgerCsv(db: Db, workshopId: string, batchId: string): { filename: string; csv: string } {
+  const b = getBatch(db, workshopId, batchId);
+  const q = (v: unknown) => {
+    const s = v === null || v === undefined ? "" : String(v);
+    return /[",\r\n]/.test(s) ? `"${s.replaceAll('"', '""')}"` : s;
+  };
+  const header = ["serial", "verdict", "fundamental_hz", "deviation_cents", "overtone_ratio", "t60_s", "q", "strikes", "disposition", "disposition_reason", "customer_name", "last_measured_at"];
+  const lines = b.rows.map((r) =>
+    [r.serial, r.verdict, r.fundamentalHz?.toFixed(4), r.deviationCents?.toFixed(2), r.overtoneRatio?.toFixed(4), r.t60S?.toFixed(3), r.q?.toFixed(0), r.strikes, r.disposition?.decision, r.disposition?.reason, r.customerName, r.lastMeasuredAt].map(q).join(","),
+  );
+  return { filename: `${b.code}-ledger.csv`, csv: [header.join(","), ...lines].join("\r\n") + "\r\n" };
+}

@@ -1,0 +1,124 @@
+/**
+ * The authorization matrix: every /api route × (anonymous, maker, qa, owner, another workshop's
+ * owner) → the expected status. The test reads the routes from the Express routers themselves and
+ * fails when one is missing from the table below, so a new route cannot ship unguarded or untested.
+ * Requests that a role may make are sent with a body that fails validation (400) where a success
+ * would change the record; that proves the guard let the role through without side effects.
+ * better-auth's own endpoints (/api/auth/*) are covered by tests/integration/auth.test.ts.
+ */
+import { eq } from "drizzle-orm";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { apiRouters } from "../../server/app.ts";
+import { batch, mailMessage, spec, unit } from "../../server/db/schema.ts";
+import { ORIGIN, startTestApp, type TestApp, type Who } from "../support/app.ts";
+import { toneWav } from "../support/wav.ts";
+
+type Ids = { spec: string; batch: string; openBatch: string; unit: string; strike: string; mail: string; invitation: string };
+type Row = {
+  method: "GET" | "POST" | "PUT" | "PATCH" | "DELETE";
+  path: string;
+  url: (ids: Ids) => string;
+  /** Expected status for [anonymous, maker, qa, owner, other workshop's owner]. */
+  expect: [number, number, number, number, number];
+  body?: unknown;
+  multipart?: boolean;
+};
+
+const WHO: Who[] = ["anonymous", "maker", "qa", "owner", "other"];
+
+export const MATRIX: Row[] = [
+  { method: "GET", path: "/health", url: () => "/api/health", expect: [200, 200, 200, 200, 200] },
+  { method: "GET", path: "/me", url: () => "/api/me", expect: [401, 200, 200, 200, 200] },
+  { method: "GET", path: "/invitations/:id", url: (i) => `/api/invitations/${i.invitation}`, expect: [200, 200, 200, 200, 200] },
+  { method: "GET", path: "/workshop", url: () => "/api/workshop", expect: [401, 200, 200, 200, 200] },
+  { method: "PUT", path: "/workshop/profile", url: () => "/api/workshop/profile", body: { certificatePrefix: "lower case" }, expect: [401, 403, 403, 400, 400] },
+  { method: "GET", path: "/dashboard", url: () => "/api/dashboard", expect: [401, 200, 200, 200, 200] },
+  { method: "GET", path: "/audit", url: () => "/api/audit", expect: [401, 403, 200, 200, 200] },
+  { method: "GET", path: "/mail", url: () => "/api/mail", expect: [401, 403, 403, 200, 200] },
+  { method: "GET", path: "/mail/:id/html", url: (i) => `/api/mail/${i.mail}/html`, expect: [401, 403, 403, 200, 404] },
+  { method: "GET", path: "/mail/:id/attachments/:index", url: (i) => `/api/mail/${i.mail}/attachments/9`, expect: [401, 403, 403, 404, 404] },
+  { method: "GET", path: "/specs", url: () => "/api/specs", expect: [401, 200, 200, 200, 200] },
+  { method: "POST", path: "/specs", url: () => "/api/specs", body: {}, expect: [401, 403, 400, 400, 400] },
+  { method: "GET", path: "/specs/:id", url: (i) => `/api/specs/${i.spec}`, expect: [401, 200, 200, 200, 404] },
+  { method: "POST", path: "/specs/:id/versions", url: (i) => `/api/specs/${i.spec}/versions`, body: {}, expect: [401, 403, 400, 400, 404] },
+  { method: "GET", path: "/batches", url: () => "/api/batches", expect: [401, 200, 200, 200, 200] },
+  { method: "POST", path: "/batches", url: () => "/api/batches", body: {}, expect: [401, 400, 400, 400, 400] },
+  { method: "GET", path: "/batches/:id", url: (i) => `/api/batches/${i.batch}`, expect: [401, 200, 200, 200, 404] },
+  { method: "GET", path: "/batches/:id/next-unit", url: (i) => `/api/batches/${i.batch}/next-unit`, expect: [401, 200, 200, 200, 404] },
+  { method: "POST", path: "/batches/:id/units", url: (i) => `/api/batches/${i.batch}/units`, body: {}, expect: [401, 400, 400, 400, 404] },
+  { method: "GET", path: "/batches/:id/ledger.csv", url: (i) => `/api/batches/${i.batch}/ledger.csv`, expect: [401, 200, 200, 200, 404] },
+  // The first permitted call moves the open batch to review; the next ones find it in review.
+  { method: "POST", path: "/batches/:id/review", url: (i) => `/api/batches/${i.openBatch}/review`, expect: [401, 200, 409, 409, 404] },
+  // Units are still unmeasured, so release is refused with the list of open units.
+  { method: "POST", path: "/batches/:id/release", url: (i) => `/api/batches/${i.batch}/release`, expect: [401, 403, 409, 409, 404] },
+  { method: "POST", path: "/batches/:id/strikes", url: (i) => `/api/batches/${i.batch}/strikes`, multipart: true, expect: [401, 400, 400, 400, 404] },
+  { method: "GET", path: "/units/:id", url: (i) => `/api/units/${i.unit}`, expect: [401, 200, 200, 200, 404] },
+  { method: "PATCH", path: "/units/:id", url: (i) => `/api/units/${i.unit}`, body: { customerEmail: "not an e-mail" }, expect: [401, 400, 400, 400, 404] },
+  { method: "POST", path: "/units/:id/strikes", url: (i) => `/api/units/${i.unit}/strikes`, multipart: true, expect: [401, 400, 400, 400, 404] },
+  { method: "POST", path: "/units/:id/dispositions", url: (i) => `/api/units/${i.unit}/dispositions`, body: {}, expect: [401, 403, 400, 400, 404] },
+  { method: "GET", path: "/strikes/:id", url: (i) => `/api/strikes/${i.strike}`, expect: [401, 200, 200, 200, 404] },
+  { method: "GET", path: "/strikes/:id/audio", url: (i) => `/api/strikes/${i.strike}/audio`, expect: [401, 200, 200, 200, 404] },
+];
+
+/** Every route the API routers declare, as "METHOD /path", with the guard mark of its first handler. */
+export function declaredRoutes(t: TestApp) {
+  const out: { key: string; permission: string | undefined }[] = [];
+  for (const router of apiRouters(t.runtime)) {
+    for (const layer of (router as unknown as { stack: { route?: { path: string; methods: Record<string, boolean>; stack: { handle: { permission?: string } }[] } }[] }).stack) {
+      if (!layer.route) continue;
+      for (const m of Object.keys(layer.route.methods)) {
+        out.push({ key: `${m.toUpperCase()} ${layer.route.path}`, permission: layer.route.stack[0]?.handle.permission });
+      }
+    }
+  }
+  return out;
+}
+
+let t: TestApp;
+let ids: Ids;
+
+beforeAll(async () => {
+  t = await startTestApp();
+  const { db } = t.runtime;
+  const demo = db.select().from(batch).where(eq(batch.code, "BTW-2611")).get()!;
+  const open = db.select().from(batch).where(eq(batch.code, "BTW-2612")).get()!;
+  const u = db.select().from(unit).where(eq(unit.batchId, demo.id)).all()[0];
+  const maker = await t.as("maker");
+  const up = await maker.post(`/api/units/${u.id}/strikes`).set("Origin", ORIGIN).attach("audio", Buffer.from(toneWav({ frequencyHz: 440, tauS: 1.5 })), "F-0001.wav");
+  expect(up.status, JSON.stringify(up.body)).toBe(202);
+  const owner = await t.as("owner");
+  const inv = await owner.post("/api/auth/organization/invite-member").set("Origin", ORIGIN).send({ email: "newcomer@example.com", role: "maker" });
+  expect(inv.status, JSON.stringify(inv.body)).toBe(200);
+  const mail = db.select().from(mailMessage).where(eq(mailMessage.kind, "invitation")).get()!;
+  ids = { spec: db.select().from(spec).get()!.id, batch: demo.id, openBatch: open.id, unit: u.id, strike: up.body.id, mail: mail.id, invitation: inv.body.id };
+  for (const who of WHO) await t.as(who);
+});
+
+afterAll(async () => {
+  await t.runtime.queue.drained();
+  await t.close();
+});
+
+describe("authorization matrix", () => {
+  it("has a row for every declared API route, and every route carries a guard", () => {
+    const declared = declaredRoutes(t);
+    const inTable = new Set(MATRIX.map((r) => `${r.method} ${r.path}`));
+    expect(declared.filter((d) => !inTable.has(d.key)).map((d) => d.key), "routes missing from the matrix").toEqual([]);
+    expect([...inTable].filter((k) => !declared.some((d) => d.key === k)), "matrix rows for routes that no longer exist").toEqual([]);
+    expect(declared.filter((d) => !d.permission).map((d) => d.key), "routes without a guard (requirePermission, requireUser or publicRoute)").toEqual([]);
+  });
+
+  for (const row of MATRIX) {
+    it(`${row.method} ${row.path}`, async () => {
+      const got: number[] = [];
+      for (const who of WHO) {
+        const agent = await t.as(who);
+        let req = agent[row.method.toLowerCase() as "get"](row.url(ids)).set("Origin", ORIGIN);
+        if (row.multipart) req = req.field("temperatureC", "20");
+        else if (row.body !== undefined) req = req.send(row.body as object);
+        got.push((await req).status);
+      }
+      expect(got).toEqual(row.expect);
+    });
+  }
+});
