@@ -1,0 +1,281 @@
+/**
+ * The pipeline (DESIGN.md §4): decode → validate → condition → segment strikes → find partials →
+ * refine each partial → classify → report. Pure: bytes in, numbers out.
+ */
+import type { AnalysisResult, AnalysisWarning, Partial, StrikePlot, StrikeResult } from "../../shared/schemas/analysis";
+import { AnalysisInputError } from "./errors";
+import { nextPow2, realDft } from "./fft";
+import { humFundamental } from "./hum";
+import { refinePartial, type RefinedPartial } from "./partial";
+import { findOnsets } from "./segment";
+import { findPeaks, quickSelect, windowedSpectrum, type Spectrum } from "./spectrum";
+import { decodeWav } from "./wav";
+
+export const ANALYSER_VERSION = "1.0.0";
+
+/** Where the time went, ms (filled when passed to analyzeWavTimed). */
+export interface AnalysisTimings {
+  decodeMs: number;
+  segmentMs: number;
+  fftMs: number;
+  refineMs: number;
+  totalMs: number;
+  partials: number;
+}
+
+const MAX_PARTIALS = 24;
+/** Peaks must stand this far above the local noise floor, dB. The largest of ~10⁴ noise-only
+ *  periodogram bins sits ≈ 10 dB above the mean (exponential statistics), so 15 dB keeps noise out. */
+const PEAK_PROMINENCE_DB = 15;
+const PEAK_RANGE_DB = 70;
+const MIN_PARTIAL_HZ = 20;
+/** Longest segment used for refinement, samples (bounds memory and FFT size: 2^22 points). */
+const MAX_SEGMENT = 3_800_000;
+const LOW_RATE_HZ = 22050;
+const LOW_LEVEL_DBFS = -40;
+const DC_LIMIT = 0.005;
+
+const now = () => performance.now();
+
+/** Analyses a WAV file. Throws AnalysisInputError when the file cannot be analysed. */
+export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } = {}, timings?: AnalysisTimings): AnalysisResult {
+  const t0 = now();
+  const decoded = decodeWav(bytes);
+  const { layout, mono, channelStats } = decoded;
+  const fs = layout.sampleRate;
+  const t1 = now();
+  const warnings: AnalysisWarning[] = [];
+  const warn = (code: AnalysisWarning["code"], message: string) => {
+    if (!warnings.some((w) => w.code === code)) warnings.push({ code, message });
+  };
+
+  const peak = Math.max(...channelStats.map((c) => c.peak));
+  if (peak === 0 || peak < 1e-9) {
+    throw new AnalysisInputError(
+      "silence",
+      "The recording is digital silence (every sample is zero). Check that the microphone is connected, selected and not muted, then record the strike again.",
+    );
+  }
+
+  // Condition: remove DC (mean of the mix).
+  let mean = 0;
+  for (let i = 0; i < mono.length; i++) mean += mono[i];
+  mean /= mono.length;
+  for (let i = 0; i < mono.length; i++) mono[i] -= mean;
+  const worstDc = Math.max(...channelStats.map((c) => Math.abs(c.mean)));
+  if (worstDc > DC_LIMIT) {
+    warn("dc_offset", `The recording has a DC offset of ${(100 * worstDc).toFixed(1)} % of full scale; it was removed before analysis. A faulty or unsuitable microphone input usually causes this.`);
+  }
+  if (fs < LOW_RATE_HZ) {
+    warn("low_sample_rate", `The sample rate is only ${fs} Hz, so partials above ${Math.round(0.45 * fs)} Hz cannot be measured. Record at 44.1 kHz or 48 kHz.`);
+  }
+  const peakDb = 20 * Math.log10(peak);
+  if (peakDb < LOW_LEVEL_DBFS) {
+    warn("low_level", `The recording is very quiet (peak ${peakDb.toFixed(0)} dBFS). Move the microphone closer or raise the input gain, keeping the peak below full scale.`);
+  }
+  if (decoded.clippedRuns > 0) {
+    warn("clipped", `The recording is clipped (${decoded.clippedRuns} run${decoded.clippedRuns === 1 ? "" : "s"} of samples at full scale, the last at ${(decoded.lastClippedFrame / fs).toFixed(2)} s); only the part after the clipping was analysed. Lower the input gain or strike more gently and record again.`);
+  }
+  if (layout.channels > 1) {
+    const rmsDb = channelStats.map((c) => 20 * Math.log10(c.rms + 1e-12));
+    const worstCorr = Math.min(...channelStats.map((c) => c.correlationWithFirst));
+    const spread = Math.max(...rmsDb) - Math.min(...rmsDb);
+    if (worstCorr < 0.5 || spread > 10) {
+      warn("channels_disagree", `The ${layout.channels} channels differ (correlation ${worstCorr.toFixed(2)}, levels ${spread.toFixed(0)} dB apart); their mix was analysed. Record in mono, or check that both microphones hear the strike.`);
+    }
+  }
+
+  const seg = findOnsets(mono, fs);
+  const t2 = now();
+  let fftMs = 0;
+  let refineMs = 0;
+  let partialCount = 0;
+  const strikes: StrikeResult[] = [];
+  const humSeen = new Set<number>();
+  const unreliable: number[] = [];
+  if (seg.onsets.length === 0) {
+    warn("noise_only", "No strike was found: the recording holds only noise (no sound rises clearly above the background). Strike the unit within the recording, close to the microphone.");
+    warn("no_partials", "No partials were found, so nothing was measured.");
+  }
+  for (let s = 0; s < seg.onsets.length; s++) {
+    const onset = seg.onsets[s];
+    const segEnd = s + 1 < seg.onsets.length ? seg.onsets[s + 1] : mono.length;
+    let analysisStart = onset;
+    for (const [a, b] of decoded.clipRegions) if (b >= onset && a < segEnd) analysisStart = Math.max(analysisStart, b + 1);
+    // The strike transient: until the level peaks (plus one frame), at least 10 ms, at most 60 ms.
+    const f0 = Math.floor(onset / seg.hop);
+    let fPeak = f0;
+    for (let f = f0; f < Math.min(seg.levelDb.length, f0 + Math.round(0.06 * fs / seg.hop)); f++) if (seg.levelDb[f] > seg.levelDb[fPeak]) fPeak = f;
+    const transientEnd = Math.min(onset + Math.round(0.06 * fs), Math.max(onset + Math.round(0.01 * fs), (fPeak + 2) * seg.hop));
+    const fitStart = Math.max(analysisStart, transientEnd);
+    const available = segEnd - fitStart;
+    const ta = now();
+    const result: StrikeResult = { onsetS: onset / fs, partials: [], noiseFloorDb: seg.quietDb };
+    if ((segEnd - analysisStart) / fs < 0.5 || available < 512) {
+      warn("short_recording", `A strike at ${(onset / fs).toFixed(2)} s was recorded for only ${(Math.max(0, segEnd - onset) / fs).toFixed(2)} s after the strike${analysisStart > onset ? " (after clipping)" : ""}. Record at least 2 s after each strike so the decay can be measured.`);
+    }
+    if (available < 512) {
+      strikes.push(result);
+      continue;
+    }
+    const lp = Math.min(available, nextPow2(Math.round(fs * 0.5)));
+    const spec = windowedSpectrum(mono, fitStart, lp, fs);
+    result.noiseFloorDb = round(broadbandNoiseDb(spec), 2);
+    const peaks = findPeaks(spec, {
+      minProminenceDb: PEAK_PROMINENCE_DB,
+      rangeDb: PEAK_RANGE_DB,
+      minHz: Math.max(MIN_PARTIAL_HZ, (3 * fs) / spec.size),
+      maxHz: Math.min(0.45 * fs, 30000),
+      maxPeaks: 2 * MAX_PARTIALS,
+    });
+    // The strike segment for refinement, zero-padded so the band filters do not wrap around.
+    const segLen = Math.min(segEnd - analysisStart, MAX_SEGMENT);
+    const M = nextPow2(Math.ceil(segLen * 1.07));
+    const X = realDft(mono.subarray(analysisStart, analysisStart + segLen), M);
+    const tb = now();
+    fftMs += tb - ta;
+
+    const groups = groupPeaks(peaks.map((p) => p.frequencyHz));
+    const allHz = peaks.map((p) => p.frequencyHz);
+    const refined: Array<{ r: RefinedPartial; hum: boolean }> = [];
+    for (const group of groups.slice(0, MAX_PARTIALS)) {
+      const others = allHz.filter((f) => !group.includes(f));
+      const lo = Math.min(...group);
+      const hi = Math.max(...group);
+      const neighbourHz = others.length ? Math.min(...others.map((f) => (f < lo ? lo - f : f > hi ? f - hi : 0))) : Infinity;
+      const r = refinePartial({ X, M, sampleRate: fs, segStart: analysisStart, segLen, onsetSample: onset, fitStartSample: fitStart, peaksHz: group, neighbourHz });
+      if (!r) continue;
+      const p = r.partial;
+      if (!Number.isFinite(p.frequencyHz) || !Number.isFinite(p.tauS) || !Number.isFinite(p.amplitudeDb)) continue;
+      if ((p.snrDb ?? 0) < 6) continue;
+      // Steady tones are not the unit's partials: a struck partial decays measurably.
+      const steady = !(r.alpha > 3 * r.alphaUncertainty) || r.alpha <= 0;
+      const mains = humFundamental(p.frequencyHz);
+      const decayDb = (20 / Math.LN10) * r.alpha * ((analysisStart + segLen) / fs - onset / fs);
+      if (mains && (steady || decayDb < 3)) {
+        humSeen.add(round(p.frequencyHz, 2));
+        refined.push({ r, hum: true });
+        continue;
+      }
+      if (steady || p.tauS <= 0) continue;
+      refined.push({ r, hum: false });
+    }
+    // The same partial reached from two peaks: keep the stronger.
+    const kept: RefinedPartial[] = [];
+    for (const { r } of refined.filter((x) => !x.hum).sort((a, b) => b.r.partial.amplitudeDb - a.r.partial.amplitudeDb)) {
+      const dup = kept.some((k) => Math.abs(k.partial.frequencyHz - r.partial.frequencyHz) < Math.max(0.5, 3 * (k.partial.frequencyUncertaintyHz + r.partial.frequencyUncertaintyHz)));
+      if (!dup) kept.push(r);
+    }
+    kept.sort((a, b) => a.partial.frequencyHz - b.partial.frequencyHz);
+    result.partials = kept.map((k) => cleanPartial(k.partial));
+    for (const k of kept) if (k.partial.tauUnreliable) unreliable.push(k.partial.frequencyHz);
+    partialCount += kept.length;
+    if (options.plot) result.plot = makePlot(spec, [...humSeen], kept);
+    if (kept.length === 0) warn("no_partials", "No partials clear of the noise were found in a strike. Strike the unit more firmly or move the microphone closer.");
+    refineMs += now() - tb;
+    strikes.push(result);
+  }
+  if (humSeen.size > 0) {
+    const list = [...humSeen].sort((a, b) => a - b);
+    const mains = humFundamental(list[0]) ?? 50;
+    warn("hum", `Mains hum (${mains} Hz family: ${list.slice(0, 6).map((f) => f.toFixed(1)).join(", ")} Hz) was found and ignored. Keep mains cables, chargers and transformers away from the microphone.`);
+  }
+  if (unreliable.length > 0) {
+    const list = [...new Set(unreliable.map((f) => f.toFixed(1)))];
+    warn("tau_unreliable", `The partial${list.length > 1 ? "s" : ""} at ${list.slice(0, 6).join(", ")} Hz decayed less than 3 dB during the recording, so τ, T60 and Q are not reliable there: a longer recording is needed (keep recording until the ringing has clearly died down).`);
+  }
+  const t3 = now();
+  if (timings) {
+    timings.decodeMs += t1 - t0;
+    timings.segmentMs += t2 - t1;
+    timings.fftMs += fftMs;
+    timings.refineMs += refineMs;
+    timings.totalMs += t3 - t0;
+    timings.partials += partialCount;
+  }
+  return {
+    analyserVersion: ANALYSER_VERSION,
+    sampleRate: fs,
+    channels: layout.channels,
+    bitsPerSample: layout.bitsPerSample,
+    encoding: layout.encoding,
+    durationS: layout.durationS,
+    warnings,
+    strikes,
+  };
+}
+
+/** Broadband noise RMS, dB re full scale, from the spectrum's median (robust to the partials). */
+function broadbandNoiseDb(s: Spectrum): number {
+  const lo = Math.ceil((20 * s.size) / s.sampleRate);
+  const hi = Math.min(s.power.length - 1, Math.floor(0.45 * s.size));
+  const tmp = new Float64Array(Math.max(1, Math.floor((hi - lo) / 4)));
+  let m = 0;
+  for (let k = lo; k < hi && m < tmp.length; k += 4) tmp[m++] = s.power[k];
+  const med = quickSelect(tmp.subarray(0, m), m >> 1);
+  // E|X[k]|² = σ²·Σw² for white noise; the median of that exponential variable is ln 2 times it.
+  return 10 * Math.log10(med / Math.LN2 / s.windowSumSq + 1e-30);
+}
+
+/** Close peaks (a doublet the FFT resolved) are analysed together: pairs within max(8 Hz, 0.5 %). */
+function groupPeaks(freqs: number[]): number[][] {
+  // `freqs` arrive strongest first; keep that order for the groups.
+  const used = new Set<number>();
+  const groups: number[][] = [];
+  for (let i = 0; i < freqs.length; i++) {
+    if (used.has(i)) continue;
+    used.add(i);
+    const f = freqs[i];
+    let partner = -1;
+    for (let j = 0; j < freqs.length; j++) {
+      if (used.has(j)) continue;
+      if (Math.abs(freqs[j] - f) <= Math.max(8, 0.005 * f)) {
+        partner = j;
+        break;
+      }
+    }
+    if (partner >= 0) {
+      used.add(partner);
+      groups.push([f, freqs[partner]]);
+    } else groups.push([f]);
+  }
+  return groups;
+}
+
+function cleanPartial(p: Partial): Partial {
+  const out: Partial = { ...p };
+  for (const key of Object.keys(out) as Array<keyof Partial>) {
+    const v = out[key];
+    if (typeof v === "number" && !Number.isFinite(v)) (out as Record<string, unknown>)[key] = key === "frequencyUncertaintyHz" || key === "tauUncertaintyS" ? -1 : 0;
+  }
+  return out;
+}
+
+function makePlot(s: Spectrum, humHz: number[], kept: RefinedPartial[]): StrikePlot {
+  const n = s.power.length;
+  const points = Math.min(2000, n);
+  const per = n / points;
+  const gain = 20 * Math.log10(2 / s.windowSum); // a full-scale sine peaks at 0 dBFS
+  const frequencyHz: number[] = [];
+  const magnitudeDb: number[] = [];
+  const noiseFloorDb: number[] = [];
+  for (let b = 0; b < points; b++) {
+    const lo = Math.floor(b * per);
+    const hi = Math.max(lo + 1, Math.floor((b + 1) * per));
+    let best = lo;
+    let fl = 0;
+    for (let k = lo; k < hi; k++) {
+      if (s.power[k] > s.power[best]) best = k;
+      fl += s.floor[k];
+    }
+    frequencyHz.push(round((best * s.sampleRate) / s.size, 3));
+    magnitudeDb.push(round(10 * Math.log10(s.power[best] + 1e-30) + gain, 2));
+    noiseFloorDb.push(round(10 * Math.log10(fl / (hi - lo) + 1e-30) + gain, 2));
+  }
+  return { spectrum: { frequencyHz, magnitudeDb, noiseFloorDb }, humHz: humHz.sort((a, b) => a - b), envelopes: kept.map((k) => k.envelope) };
+}
+
+function round(v: number, digits: number): number {
+  const f = 10 ** digits;
+  return Math.round(v * f) / f;
+}
