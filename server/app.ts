@@ -18,12 +18,14 @@ import { contextMiddleware } from "./middleware/context.ts";
 import { apiNotFound, errorHandler } from "./middleware/errors.ts";
 import { sameOriginJson } from "./middleware/origin.ts";
 import { batchRoutes } from "./routes/batches.ts";
+import { certificateRoutes } from "./routes/certificates.ts";
 import { mailRoutes } from "./routes/mail.ts";
 import { sessionRoutes } from "./routes/session.ts";
 import { specRoutes } from "./routes/specs.ts";
 import { strikeRoutes } from "./routes/strikes.ts";
 import { workshopRoutes } from "./routes/workshop.ts";
 import type { AnalysisQueue } from "./services/analysis-queue.ts";
+import type { CertificateDeps } from "./services/certificates.ts";
 import type { Storage } from "./services/storage.ts";
 
 export type AppDeps = {
@@ -35,13 +37,14 @@ export type AppDeps = {
   logger: Logger;
   storage: Storage;
   queue: AnalysisQueue;
+  certificates: CertificateDeps;
 };
 
 const clientDir = fileURLToPath(new URL("../dist/client", import.meta.url));
 
 /** The feature routers, in one list: the authorization matrix test walks them. */
 export function apiRouters(deps: AppDeps) {
-  return [sessionRoutes(deps), workshopRoutes(deps), mailRoutes(deps), specRoutes(deps), batchRoutes(deps), strikeRoutes(deps)];
+  return [sessionRoutes(deps), workshopRoutes(deps), mailRoutes(deps), specRoutes(deps), batchRoutes(deps), strikeRoutes(deps), certificateRoutes(deps)];
 }
 
 export function createApp(deps: AppDeps) {

@@ -13,6 +13,9 @@ import { createInProcessQueue } from "./services/analysis-queue.ts";
 import { createStorage } from "./services/storage.ts";
 import { createAnalysisPool } from "./workers/analysis-pool.ts";
 import { availableParallelism } from "node:os";
+import path from "node:path";
+import { ANALYSER_VERSION } from "./analysis/index.ts";
+import { loadOrCreateSigningKey } from "./certificates/signing.ts";
 import { seedDemo } from "../seeds/demo.ts";
 
 export type Runtime = AppDeps & { capture: CaptureServer | null; close(): Promise<void> };
@@ -29,7 +32,10 @@ export async function bootstrap(env: Env, logger: Logger = createLogger(env.LOG_
   const threads = env.ANALYSIS_THREADS ?? Math.max(1, availableParallelism() - 1);
   const pool = createAnalysisPool({ maxThreads: threads, maxQueue: threads * 4 });
   const queue = createInProcessQueue({ db, sqlite, storage, logger, pool, concurrency: threads * 2 });
-  const deps: AppDeps = { env, db, sqlite, auth, mailer, logger, storage, queue };
+  // The signing key lives beside the database, never inside it: a copy of the database alone cannot forge.
+  const key = loadOrCreateSigningKey(path.join(env.DATA_DIR, "keys"));
+  const certificates = { db, mailer, key, dataDir: env.DATA_DIR, baseUrl: env.baseUrl, analyserVersion: ANALYSER_VERSION };
+  const deps: AppDeps = { env, db, sqlite, auth, mailer, logger, storage, queue, certificates };
   if (env.SEED_DEMO) await seedDemo(deps);
   return {
     ...deps,

@@ -1,0 +1,61 @@
+/** Certificates: issue, preview, list, PDF, re-send; and the public verification look-up. */
+import { Router } from "express";
+import { rateLimit } from "express-rate-limit";
+import { issueCertificateSchema, verificationCodeSchema } from "../../shared/schemas/certificate.ts";
+import { notFound } from "../http-error.ts";
+import { publicRoute, requirePermission, userOf, workshopOf } from "../middleware/guards.ts";
+import { certificatePdf, findCertificate, issueCertificate, listCertificates, previewCertificate, sendCertificateMail, verifyByCode } from "../services/certificates.ts";
+import { findUnit } from "../services/strikes.ts";
+import type { AppDeps } from "../app.ts";
+
+export function certificateRoutes(deps: AppDeps) {
+  const { db, certificates } = deps;
+  const r = Router();
+  const issue = requirePermission("certificate", "issue");
+  const read = requirePermission("certificate", "read");
+  const actor = (req: Parameters<typeof workshopOf>[0]) => {
+    const w = workshopOf(req);
+    const u = userOf(req);
+    return { workshopId: w.id, userId: u.id, name: u.name, role: w.role };
+  };
+
+  r.get("/units/:id/certificates", read, (req, res) => {
+    const u = findUnit(db, workshopOf(req).id, String(req.params.id));
+    res.json({ certificates: listCertificates(db, u.workshopId, u.id, deps.env.baseUrl) });
+  });
+
+  r.post("/units/:id/certificates", issue, async (req, res) => {
+    findUnit(db, workshopOf(req).id, String(req.params.id));
+    const input = issueCertificateSchema.parse(req.body);
+    const c = await issueCertificate(certificates, actor(req), String(req.params.id), input);
+    res.status(201).json({ number: c.number, verifyUrl: c.verifyUrl, certificate: c });
+  });
+
+  r.post("/units/:id/certificates/preview", issue, async (req, res) => {
+    findUnit(db, workshopOf(req).id, String(req.params.id));
+    const input = issueCertificateSchema.parse(req.body);
+    const pdf = await previewCertificate(certificates, actor(req), String(req.params.id), input);
+    res.type("application/pdf").set("Content-Disposition", 'inline; filename="certificate-preview.pdf"').send(pdf);
+  });
+
+  r.get("/certificates/:number/pdf", read, async (req, res) => {
+    const pdf = await certificatePdf(certificates, workshopOf(req).id, String(req.params.number), req.query.original === "1");
+    res.type("application/pdf").set("Content-Disposition", `inline; filename="${String(req.params.number)}.pdf"`).send(pdf);
+  });
+
+  r.post("/certificates/:number/send", issue, async (req, res) => {
+    const c = findCertificate(db, workshopOf(req).id, String(req.params.number));
+    const mail = await sendCertificateMail(certificates, c.id);
+    res.json({ mail: { id: mail.id, state: mail.state, error: mail.error, attempts: mail.attempts } });
+  });
+
+  // Public and rate limited: a code is random, but nobody should be able to try codes at speed.
+  const verifyLimit = rateLimit({ windowMs: 60_000, limit: 30, standardHeaders: "draft-8", legacyHeaders: false, handler: (_req, res) => res.status(429).json({ error: { code: "too_many_requests", message: "Too many verification look-ups from this address; wait a minute and try again." } }) });
+  r.get("/verify/:code", publicRoute, verifyLimit, (req, res) => {
+    const code = verificationCodeSchema.safeParse(String(req.params.code));
+    if (!code.success) throw notFound("No certificate has this verification code; check the link. A certificate");
+    res.set("Cache-Control", "no-store").json(verifyByCode(certificates, code.data));
+  });
+
+  return r;
+}
