@@ -93,10 +93,10 @@ export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } =
   const strikes: StrikeResult[] = [];
   const humSeen = new Set<number>();
   const unreliable: number[] = [];
-  if (seg.onsets.length === 0) {
-    warn("noise_only", "No strike was found: the recording holds only noise (no sound rises clearly above the background). Strike the unit within the recording, close to the microphone.");
-    warn("no_partials", "No partials were found, so nothing was measured.");
-  }
+  // No rise found: the recording may have started after the strike (or hold only noise). Analyse
+  // it as one strike from the start; if nothing rings in it, it is noise.
+  const assumedStrike = seg.onsets.length === 0;
+  if (assumedStrike) seg.onsets.push(0);
   for (let s = 0; s < seg.onsets.length; s++) {
     const onset = seg.onsets[s];
     const segEnd = s + 1 < seg.onsets.length ? seg.onsets[s + 1] : mono.length;
@@ -174,6 +174,12 @@ export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } =
     if (kept.length === 0) warn("no_partials", "No partials clear of the noise were found in a strike. Strike the unit more firmly or move the microphone closer.");
     refineMs += now() - tb;
     strikes.push(result);
+  }
+  if (assumedStrike && strikes.every((s) => s.partials.length === 0)) {
+    strikes.length = 0;
+    warnings.splice(0, warnings.length, ...warnings.filter((w) => w.code !== "no_partials" && w.code !== "short_recording"));
+    warn("noise_only", "No strike was found: the recording holds only noise or steady tones (nothing rises above the background and rings down). Strike the unit within the recording, close to the microphone.");
+    warn("no_partials", "No partials were found, so nothing was measured.");
   }
   if (humSeen.size > 0) {
     const list = [...humSeen].sort((a, b) => a - b);

@@ -6,7 +6,7 @@ export interface Onsets {
   /** Frame hop, samples, and the per-frame level, dB re full scale (mean square). */
   hop: number;
   levelDb: Float64Array;
-  /** Level of the quietest frames (10th percentile), dB: a rough broadband floor for segmentation. */
+  /** Level of the quietest frames (2nd percentile), dB: a rough broadband floor for segmentation. */
   quietDb: number;
 }
 
@@ -38,7 +38,7 @@ export function findOnsets(x: Float64Array, sampleRate: number): Onsets {
     levelDb[f] = 10 * Math.log10(e / hop + 1e-20);
   }
   const sorted = Float64Array.from(levelDb).sort();
-  const quietDb = nf > 0 ? sorted[Math.floor(nf * 0.1)] : -200;
+  const quietDb = nf > 0 ? sorted[Math.floor(nf * 0.02)] : -200;
   const onsets: number[] = [];
   if (nf < 3) return { onsets, hop, levelDb, quietDb };
   const recent = Math.round(0.2 / HOP_S);
