@@ -37,7 +37,14 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
           // No sign-in needed below here. The certificate verification page (/verify/:code) joins this group.
           element: <PublicLayout />,
           errorElement,
-          children: [{ path: paths.public.invitation.path, loader: invitationLoader(queryClient), element: <InvitationRoute />, errorElement }],
+          children: [
+            {
+              path: paths.public.invitation.path,
+              loader: invitationLoader(queryClient),
+              element: <InvitationRoute />,
+              errorElement: <RouteError notFoundHint="Check that the whole link from your invitation e-mail was opened, or ask the workshop owner to send a new invitation." />,
+            },
+          ],
         },
         {
           path: paths.app.root.path,
@@ -47,7 +54,7 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
           children: [
             // Errors of a page render inside the shell, so navigation stays at hand.
             {
-              errorElement,
+              errorElement: <RouteError embedded />,
               children: [
                 { index: true, element: <DashboardRoute /> },
                 { path: paths.app.batches.path, element: <BatchesRoute /> },

@@ -80,7 +80,8 @@ describe("joining a workshop by invitation", () => {
   it("an accepted invitation cannot be used again", async () => {
     const { page } = browser;
     await page.goto(inviteLink);
-    await page.getByText("This invitation has already been accepted").waitFor();
+    await page.getByText("This invitation has been accepted.").waitFor();
+    await page.getByRole("link", { name: "Go to the dashboard" }).waitFor();
   });
 
   it("an unknown invitation says plainly that it was not found", async () => {

@@ -99,12 +99,15 @@ async function freePort(): Promise<number> {
  */
 export async function startServer({ timeoutMs = 90_000 }: { timeoutMs?: number } = {}): Promise<RunningServer> {
   await ensureClientBuilt();
+  // TINELOG_E2E_SERVER_ROOT runs the server of another checkout (e.g. an exported commit with
+  // node_modules and dist linked in) while this tree's server is half-edited; unset, it is this tree.
+  const serverRoot = process.env.TINELOG_E2E_SERVER_ROOT ? path.resolve(process.env.TINELOG_E2E_SERVER_ROOT) : repoRoot;
   const port = await freePort();
   const dataDir = mkdtempSync(path.join(tmpdir(), "tinelog-e2e-"));
   const baseUrl = `http://127.0.0.1:${port}`;
   let output = "";
-  const child: ChildProcess = spawn(path.join(repoRoot, "node_modules/.bin/tsx"), ["server/index.ts"], {
-    cwd: repoRoot,
+  const child: ChildProcess = spawn(path.join(serverRoot, "node_modules/.bin/tsx"), ["server/index.ts"], {
+    cwd: serverRoot,
     env: {
       ...process.env,
       PORT: String(port),

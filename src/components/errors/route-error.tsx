@@ -17,7 +17,14 @@ function statusOf(error: unknown): { status: number; message: string } {
   return { status: 500, message: "This page hit an unexpected problem. Reload the page; if it keeps happening, tell the workshop owner." };
 }
 
-export function RouteError() {
+type Props = {
+  /** Inside the app shell: no logo, no vertical centring — the navigation is already on screen. */
+  embedded?: boolean;
+  /** One more sentence for a 404 on this route: where the right link comes from. */
+  notFoundHint?: string;
+};
+
+export function RouteError({ embedded = false, notFoundHint }: Props) {
   const error = useRouteError();
   const location = useLocation();
   const { status, message } = statusOf(error);
@@ -30,12 +37,14 @@ export function RouteError() {
   const title =
     status === 403 ? "Not available for your role" : status === 404 ? "Not found" : status === 0 ? "No connection to Tinelog" : "Something went wrong";
 
+  const Wrapper = embedded ? "div" : "main";
   return (
-    <main className="mx-auto flex min-h-[60dvh] max-w-form flex-col justify-center gap-4 px-gutter py-12">
-      <Wordmark />
+    <Wrapper className={embedded ? "max-w-form" : "mx-auto flex min-h-[60dvh] max-w-form flex-col justify-center gap-4 px-gutter py-12"}>
+      {embedded ? null : <Wordmark />}
       <div role="alert" className="rounded-panel border border-line bg-surface p-6 shadow-panel">
         <h1 className="text-title font-semibold">{title}</h1>
         <p className="mt-2 text-ink-soft">{message}</p>
+        {status === 404 && notFoundHint ? <p className="mt-2 text-ink-soft">{notFoundHint}</p> : null}
         {status !== 403 && status !== 404 ? <p className="mt-2 text-caption text-ink-faint">Status {status || "no answer"}</p> : null}
         <div className="mt-5 flex flex-wrap gap-2">
           <ButtonLink to={paths.app.root.getHref()} variant="primary">
@@ -48,6 +57,6 @@ export function RouteError() {
           ) : null}
         </div>
       </div>
-    </main>
+    </Wrapper>
   );
 }

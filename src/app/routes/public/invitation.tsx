@@ -4,7 +4,7 @@ import { useNavigate, useParams, type LoaderFunctionArgs } from "react-router";
 import { roleLabels } from "@shared/permissions";
 import { AuthLayout } from "@/components/layouts/auth-layout";
 import { Alert } from "@/components/ui/alert";
-import { Button } from "@/components/ui/button";
+import { Button, ButtonLink } from "@/components/ui/button";
 import { Spinner } from "@/components/ui/spinner";
 import { paths } from "@/config/paths";
 import { SignInForm } from "@/features/auth/components/sign-in-form";
@@ -43,7 +43,13 @@ export function InvitationRoute() {
     >
       <div className="flex flex-col gap-6">
         <InvitationSummary invitation={invitation.data} />
-        {invitation.data.status !== "pending" ? (
+        {invitation.data.status === "accepted" && me.data ? (
+          <Alert tone="success" title="This invitation has been accepted.">
+            <ButtonLink className="mt-2" to={paths.app.root.getHref()} variant="primary">
+              Go to the dashboard
+            </ButtonLink>
+          </Alert>
+        ) : invitation.data.status !== "pending" ? (
           <Alert tone="caution">{statusText[invitation.data.status]}</Alert>
         ) : expired ? (
           <Alert tone="caution">This invitation has expired. Ask the workshop owner to send a new one.</Alert>
@@ -75,7 +81,17 @@ function SignedIn({ invitation, email }: { invitation: PublicInvitation; email: 
   return (
     <div className="flex flex-col gap-3">
       {accept.error ? <Alert tone="error">{accept.error.message}</Alert> : null}
-      <Button pending={accept.isPending} onClick={() => accept.mutate(undefined, { onSuccess: () => navigate(paths.app.root.getHref(), { replace: true }) })}>
+      <Button
+        pending={accept.isPending}
+        onClick={async () => {
+          try {
+            await accept.mutateAsync();
+            navigate(paths.app.root.getHref(), { replace: true });
+          } catch {
+            // shown above from accept.error
+          }
+        }}
+      >
         Join {invitation.workshopName}
       </Button>
     </div>

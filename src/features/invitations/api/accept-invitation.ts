@@ -16,9 +16,11 @@ export function useAcceptInvitation(invitationId: string) {
   return useMutation({
     mutationFn: () => acceptInvitation(invitationId),
     onSuccess: async () => {
-      await queryClient.invalidateQueries({ queryKey: getInvitationQueryOptions(invitationId).queryKey });
-      await queryClient.invalidateQueries();
       await queryClient.fetchQuery({ ...getMeQueryOptions(), staleTime: 0 });
+      // The page showing this invitation is about to be left: mark it stale without refetching now,
+      // so the landing does not flip to "already accepted" under the person's cursor.
+      await queryClient.invalidateQueries({ queryKey: getInvitationQueryOptions(invitationId).queryKey, refetchType: "none" });
+      await queryClient.invalidateQueries({ predicate: (query) => !["me", "invitations"].includes(String(query.queryKey[0])) });
     },
   });
 }

@@ -1,6 +1,5 @@
 import { useId, useState } from "react";
 import { Link } from "react-router";
-import { roleLabels } from "@shared/permissions";
 import type { WorkshopMembership } from "@/lib/auth";
 import { useSetActiveWorkshop } from "../api/set-active-workshop";
 
@@ -11,7 +10,7 @@ type Props = {
   onSwitched: () => void;
 };
 
-/** A native select: keyboard and touch friendly everywhere, and it says the role in each workshop. */
+/** A native select: keyboard and touch friendly everywhere. The role in the active workshop shows beside the account. */
 export function WorkshopSwitcher({ workshops, activeId, createHref, onSwitched }: Props) {
   const id = useId();
   const setActive = useSetActiveWorkshop();
@@ -56,7 +55,7 @@ export function WorkshopSwitcher({ workshops, activeId, createHref, onSwitched }
         {activeId ? null : <option value="">Choose a workshop</option>}
         {workshops.map((workshop) => (
           <option key={workshop.id} value={workshop.id}>
-            {workshop.name} ({roleLabels[workshop.role] ?? workshop.role})
+            {workshop.name}
           </option>
         ))}
       </select>
