@@ -5,6 +5,7 @@
  */
 import { betterAuth } from "better-auth";
 import { drizzleAdapter } from "better-auth/adapters/drizzle";
+import { asc, eq } from "drizzle-orm";
 import { organization } from "better-auth/plugins";
 import { ac, roles } from "../shared/permissions.ts";
 import type { Db } from "./db/client.ts";
@@ -26,6 +27,18 @@ export function createAuth({ db, env, mailer }: AuthDeps) {
     database: drizzleAdapter(db, { provider: "sqlite", schema }),
     emailAndPassword: { enabled: true, minPasswordLength: 10, autoSignIn: true },
     session: { expiresIn: 60 * 60 * 24 * 7, updateAge: 60 * 60 * 24 },
+    databaseHooks: {
+      session: {
+        create: {
+          // A new session starts in the workshop the user joined first, so every organization
+          // endpoint and our routes agree on the active workshop from the first request.
+          async before(session) {
+            const first = db.select({ id: schema.member.organizationId }).from(schema.member).where(eq(schema.member.userId, session.userId)).orderBy(asc(schema.member.createdAt)).get();
+            return { data: { ...session, activeOrganizationId: first?.id ?? null } };
+          },
+        },
+      },
+    },
     advanced: {
       // Secure cookies whenever the public address is https (behind a TLS proxy in production).
       useSecureCookies: env.baseUrl.startsWith("https://"),

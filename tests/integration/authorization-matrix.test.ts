@@ -13,7 +13,7 @@ import { batch, mailMessage, spec, unit } from "../../server/db/schema.ts";
 import { ORIGIN, startTestApp, type TestApp, type Who } from "../support/app.ts";
 import { toneWav } from "../support/wav.ts";
 
-type Ids = { spec: string; batch: string; openBatch: string; unit: string; strike: string; mail: string; invitation: string };
+type Ids = { spec: string; batch: string; openBatch: string; unit: string; releasedUnit: string; strike: string; mail: string; certificateMail: string; invitation: string; certificate: string; verifyCode: string };
 type Row = {
   method: "GET" | "POST" | "PUT" | "PATCH" | "DELETE";
   path: string;
@@ -36,7 +36,7 @@ export const MATRIX: Row[] = [
   { method: "GET", path: "/audit", url: () => "/api/audit", expect: [401, 403, 200, 200, 200] },
   { method: "GET", path: "/mail", url: () => "/api/mail", expect: [401, 403, 403, 200, 200] },
   { method: "GET", path: "/mail/:id/html", url: (i) => `/api/mail/${i.mail}/html`, expect: [401, 403, 403, 200, 404] },
-  { method: "GET", path: "/mail/:id/attachments/:index", url: (i) => `/api/mail/${i.mail}/attachments/9`, expect: [401, 403, 403, 404, 404] },
+  { method: "GET", path: "/mail/:id/attachments/:index", url: (i) => `/api/mail/${i.certificateMail}/attachments/0`, expect: [401, 403, 403, 200, 404] },
   { method: "GET", path: "/specs", url: () => "/api/specs", expect: [401, 200, 200, 200, 200] },
   { method: "POST", path: "/specs", url: () => "/api/specs", body: {}, expect: [401, 403, 400, 400, 400] },
   { method: "GET", path: "/specs/:id", url: (i) => `/api/specs/${i.spec}`, expect: [401, 200, 200, 200, 404] },
@@ -50,14 +50,21 @@ export const MATRIX: Row[] = [
   // The first permitted call moves the open batch to review; the next ones find it in review.
   { method: "POST", path: "/batches/:id/review", url: (i) => `/api/batches/${i.openBatch}/review`, expect: [401, 200, 409, 409, 404] },
   // Units are still unmeasured, so release is refused with the list of open units.
-  { method: "POST", path: "/batches/:id/release", url: (i) => `/api/batches/${i.batch}/release`, expect: [401, 403, 409, 409, 404] },
-  { method: "POST", path: "/batches/:id/strikes", url: (i) => `/api/batches/${i.batch}/strikes`, multipart: true, expect: [401, 400, 400, 400, 404] },
+  { method: "POST", path: "/batches/:id/release", url: (i) => `/api/batches/${i.openBatch}/release`, expect: [401, 403, 409, 409, 404] },
+  { method: "POST", path: "/batches/:id/strikes", url: (i) => `/api/batches/${i.openBatch}/strikes`, multipart: true, expect: [401, 400, 400, 400, 404] },
   { method: "GET", path: "/units/:id", url: (i) => `/api/units/${i.unit}`, expect: [401, 200, 200, 200, 404] },
   { method: "PATCH", path: "/units/:id", url: (i) => `/api/units/${i.unit}`, body: { customerEmail: "not an e-mail" }, expect: [401, 400, 400, 400, 404] },
   { method: "POST", path: "/units/:id/strikes", url: (i) => `/api/units/${i.unit}/strikes`, multipart: true, expect: [401, 400, 400, 400, 404] },
   { method: "POST", path: "/units/:id/dispositions", url: (i) => `/api/units/${i.unit}/dispositions`, body: {}, expect: [401, 403, 400, 400, 404] },
   { method: "GET", path: "/strikes/:id", url: (i) => `/api/strikes/${i.strike}`, expect: [401, 200, 200, 200, 404] },
   { method: "GET", path: "/strikes/:id/audio", url: (i) => `/api/strikes/${i.strike}/audio`, expect: [401, 200, 200, 200, 404] },
+  { method: "GET", path: "/units/:id/certificates", url: (i) => `/api/units/${i.releasedUnit}/certificates`, expect: [401, 200, 200, 200, 404] },
+  { method: "POST", path: "/units/:id/certificates", url: (i) => `/api/units/${i.releasedUnit}/certificates`, body: {}, expect: [401, 403, 400, 400, 404] },
+  { method: "POST", path: "/units/:id/certificates/preview", url: (i) => `/api/units/${i.releasedUnit}/certificates/preview`, body: {}, expect: [401, 403, 400, 400, 404] },
+  { method: "GET", path: "/certificates/:number/pdf", url: (i) => `/api/certificates/${i.certificate}/pdf`, expect: [401, 200, 200, 200, 404] },
+  // Re-sends the e-mail (harmless: the capture server receives it).
+  { method: "POST", path: "/certificates/:number/send", url: (i) => `/api/certificates/${i.certificate}/send`, expect: [401, 403, 200, 200, 404] },
+  { method: "GET", path: "/verify/:code", url: (i) => `/api/verify/${i.verifyCode}`, expect: [200, 200, 200, 200, 200] },
 ];
 
 /** Every route the API routers declare, as "METHOD /path", with the guard mark of its first handler. */
@@ -78,19 +85,48 @@ let t: TestApp;
 let ids: Ids;
 
 beforeAll(async () => {
-  t = await startTestApp();
+  // The demo seed with its strikes: batch BTW-2611 fully measured (two units out of tolerance).
+  t = await startTestApp({ DEMO_STRIKES: "1" });
   const { db } = t.runtime;
   const demo = db.select().from(batch).where(eq(batch.code, "BTW-2611")).get()!;
   const open = db.select().from(batch).where(eq(batch.code, "BTW-2612")).get()!;
-  const u = db.select().from(unit).where(eq(unit.batchId, demo.id)).all()[0];
+  const openUnit = db.select().from(unit).where(eq(unit.batchId, open.id)).all()[0];
   const maker = await t.as("maker");
-  const up = await maker.post(`/api/units/${u.id}/strikes`).set("Origin", ORIGIN).attach("audio", Buffer.from(toneWav({ frequencyHz: 440, tauS: 1.5 })), "F-0001.wav");
+  const up = await maker.post(`/api/units/${openUnit.id}/strikes`).set("Origin", ORIGIN).attach("audio", Buffer.from(toneWav({ frequencyHz: 440, tauS: 1.5 })), "F-0011.wav");
   expect(up.status, JSON.stringify(up.body)).toBe(202);
+  await t.runtime.queue.drained();
+
+  // QA disposes of the units out of tolerance, releases BTW-2611 and issues a certificate.
+  const qa = await t.as("qa");
+  const detail = (await qa.get(`/api/batches/${demo.id}`)).body;
+  for (const row of detail.rows.filter((r: { open: boolean }) => r.open)) {
+    const d = await qa.post(`/api/units/${row.id}/dispositions`).set("Origin", ORIGIN).send({ decision: "scrap", reason: "Out of tolerance; scrapped for the matrix test." });
+    expect(d.status, JSON.stringify(d.body)).toBe(201);
+  }
+  const rel = await qa.post(`/api/batches/${demo.id}/release`).set("Origin", ORIGIN);
+  expect(rel.status, JSON.stringify(rel.body)).toBe(200);
+  const releasedUnit = detail.rows.find((r: { verdict: string }) => r.verdict === "within_tolerance").id;
+  const cert = await qa.post(`/api/units/${releasedUnit}/certificates`).set("Origin", ORIGIN).send({ recipientEmail: "customer@example.com", recipientName: "A. Customer" });
+  expect(cert.status, JSON.stringify(cert.body)).toBe(201);
+
   const owner = await t.as("owner");
   const inv = await owner.post("/api/auth/organization/invite-member").set("Origin", ORIGIN).send({ email: "newcomer@example.com", role: "maker" });
   expect(inv.status, JSON.stringify(inv.body)).toBe(200);
   const mail = db.select().from(mailMessage).where(eq(mailMessage.kind, "invitation")).get()!;
-  ids = { spec: db.select().from(spec).get()!.id, batch: demo.id, openBatch: open.id, unit: u.id, strike: up.body.id, mail: mail.id, invitation: inv.body.id };
+  const certificateMail = db.select().from(mailMessage).where(eq(mailMessage.kind, "certificate")).get()!;
+  ids = {
+    spec: db.select().from(spec).get()!.id,
+    batch: demo.id,
+    openBatch: open.id,
+    unit: openUnit.id,
+    releasedUnit,
+    strike: up.body.id,
+    mail: mail.id,
+    certificateMail: certificateMail.id,
+    invitation: inv.body.id,
+    certificate: cert.body.number,
+    verifyCode: cert.body.verifyUrl.split("/").pop(),
+  };
   for (const who of WHO) await t.as(who);
 });
 
