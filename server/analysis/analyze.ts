@@ -118,7 +118,9 @@ export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } =
       strikes.push(result);
       continue;
     }
-    const lp = Math.min(available, nextPow2(Math.round(fs * 0.5)));
+    // Peak-finding window ≈ 0.34 s at 48 kHz: enough to separate partials a few Hz apart (closer ones
+    // are resolved by the two-mode fit), short enough to keep this FFT cheap.
+    const lp = Math.min(available, nextPow2(Math.round(fs * 0.25)));
     const spec = windowedSpectrum(mono, fitStart, lp, fs);
     result.noiseFloorDb = round(broadbandNoiseDb(spec), 2);
     const peaks = findPeaks(spec, {

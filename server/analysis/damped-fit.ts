@@ -203,6 +203,11 @@ export function refine(y: Float64Array, dt: number, start: Pole[], maxIter = 60)
       lambda *= 4;
     }
     if (!improved || converged) break;
+    // A mode that dies within a sample or two is fitting the noise or the strike edge: stop here
+    // and let the caller's validity check reject it.
+    let runaway = false;
+    for (let k = 0; k < p; k++) if (th[4 * k + 2] * dt > 1) runaway = true;
+    if (runaway) break;
   }
   const { A } = normalEquations(y, dt, th, p);
   const modes: Mode[] = [];
@@ -235,8 +240,8 @@ export function startingPoles(y: Float64Array, dt: number, order: 1 | 2): Pole[]
 
 /**
  * Order-1 and order-2 fits. Order 2 is tried from the matrix pencil and from splits of the
- * order-1 pole in frequency (a doublet) and in decay rate (a two-stage decay); the two starts with
- * the lowest projected cost are refined and the better kept.
+ * order-1 pole in frequency (a doublet) and in decay rate (a two-stage decay); the start with the
+ * lowest projected cost (amplitudes solved for the given poles) is refined.
  */
 export function fitOrders(y: Float64Array, dt: number, withOrder2: boolean): { one: DampedFit | null; two: DampedFit | null } {
   const n = y.length / 2;
@@ -264,10 +269,10 @@ export function fitOrders(y: Float64Array, dt: number, withOrder2: boolean): { o
     .map((s) => ({ s, c: projectedCost(y, dt, s)?.ssr ?? Infinity }))
     .filter((x) => Number.isFinite(x.c))
     .sort((x, z) => x.c - z.c)
-    .slice(0, 2);
+    .slice(0, 1);
   let two: DampedFit | null = null;
   for (const { s } of scored) {
-    const f = refine(y, dt, s, 30);
+    const f = refine(y, dt, s, 25);
     if (f && (!two || f.ssr < two.ssr)) two = f;
   }
   return { one, two };

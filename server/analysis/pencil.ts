@@ -23,24 +23,38 @@ export function matrixPencil(y: Float64Array, dt: number, order: 1 | 2): Pole[] 
   const rows = n - L;
   const cols = L + 1;
   if (rows < order + 1) return null;
-  // R = YᴴY (cols × cols, Hermitian), Y[i][j] = y[i + j].
+  // R = YᴴY (cols × cols, Hermitian), Y[i][j] = y[i + j]. The Hankel structure gives
+  // R[a+1][b+1] = R[a][b] − conj(y[a])·y[b] + conj(y[a+rows])·y[b+rows], so only the first row is
+  // summed in full.
   const R = new Float64Array(2 * cols * cols);
+  for (let b = 0; b < cols; b++) {
+    let re = 0;
+    let im = 0;
+    for (let i = 0; i < rows; i++) {
+      const ar = y[2 * i];
+      const ai = y[2 * i + 1];
+      const br = y[2 * (i + b)];
+      const bi = y[2 * (i + b) + 1];
+      re += ar * br + ai * bi; // conj(Y[i][0])·Y[i][b]
+      im += ar * bi - ai * br;
+    }
+    R[2 * b] = re;
+    R[2 * b + 1] = im;
+  }
+  for (let a = 0; a + 1 < cols; a++) {
+    for (let b = a; b + 1 < cols; b++) {
+      const ar = y[2 * a], ai = y[2 * a + 1], br = y[2 * b], bi = y[2 * b + 1];
+      const cr = y[2 * (a + rows)], ci = y[2 * (a + rows) + 1], dr = y[2 * (b + rows)], di = y[2 * (b + rows) + 1];
+      const re = R[2 * (a * cols + b)] - (ar * br + ai * bi) + (cr * dr + ci * di);
+      const im = R[2 * (a * cols + b) + 1] - (ar * bi - ai * br) + (cr * di - ci * dr);
+      R[2 * ((a + 1) * cols + b + 1)] = re;
+      R[2 * ((a + 1) * cols + b + 1) + 1] = im;
+    }
+  }
   for (let a = 0; a < cols; a++) {
-    for (let b = a; b < cols; b++) {
-      let re = 0;
-      let im = 0;
-      for (let i = 0; i < rows; i++) {
-        const ar = y[2 * (i + a)];
-        const ai = y[2 * (i + a) + 1];
-        const br = y[2 * (i + b)];
-        const bi = y[2 * (i + b) + 1];
-        re += ar * br + ai * bi; // conj(Y[i][a])·Y[i][b]
-        im += ar * bi - ai * br;
-      }
-      R[2 * (a * cols + b)] = re;
-      R[2 * (a * cols + b) + 1] = im;
-      R[2 * (b * cols + a)] = re;
-      R[2 * (b * cols + a) + 1] = -im;
+    for (let b = a + 1; b < cols; b++) {
+      R[2 * (b * cols + a)] = R[2 * (a * cols + b)];
+      R[2 * (b * cols + a) + 1] = -R[2 * (a * cols + b) + 1];
     }
   }
   // Subspace iteration for the `order` dominant eigenvectors (Golub & Van Loan, Matrix
