@@ -39,7 +39,8 @@ export async function requireWorkshop(queryClient: QueryClient, request: Request
 
 /** Pages for signed-out people send a signed-in person on to where they were going. */
 export async function redirectIfSignedIn(queryClient: QueryClient, request: Request): Promise<null> {
-  const me = await queryClient.ensureQueryData(getMeQueryOptions());
+  // Ask afresh: a cached `me` may predate a sign-out in another tab, and trusting it would loop.
+  const me = await queryClient.fetchQuery({ ...getMeQueryOptions(), staleTime: 0 });
   if (me) {
     throw redirect(safeRedirect(new URL(request.url).searchParams.get("redirectTo")));
   }

@@ -67,4 +67,42 @@ describe("an owner invites a member and finds the mail in the outbox", () => {
     expect(body).toMatch(new RegExp(`${server.baseUrl.replace(/[.:/]/g, "\\$&")}/invite/[^\\s]+`));
     await screenshot(page, "e2e-outbox-message");
   });
+
+  it("cancels the pending invitation, changes a role and removes a member, and the server keeps it", async () => {
+    const { page } = browser;
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Members" }).click();
+    const pending = page.getByRole("list", { name: "Pending invitations" });
+    await pending.getByText(invitee).waitFor();
+    await page.getByRole("button", { name: `Cancel the invitation to ${invitee}` }).click();
+    await page.getByText("No invitations waiting").waitFor();
+
+    await page.getByLabel("Role of Ilse Varga").selectOption("qa");
+    await page.getByRole("button", { name: "Remove Tobias Renn from the workshop" }).click();
+    await page.getByRole("button", { name: "Remove Tobias Renn", exact: true }).click();
+    await page.getByRole("list", { name: "Members" }).getByText("qa@example.com").waitFor({ state: "detached" });
+    await screenshot(page, "e2e-members-managed");
+
+    // A full reload reads everything back from the server, not from the client's cache.
+    await page.reload();
+    const members = page.getByRole("list", { name: "Members" });
+    await members.getByText("maker@example.com").waitFor();
+    expect(await page.getByLabel("Role of Ilse Varga").inputValue()).toBe("qa");
+    expect(await members.getByText("qa@example.com").count()).toBe(0);
+    expect(await page.getByText("No invitations waiting").count()).toBe(1);
+  });
+
+  it("a session that ended elsewhere leads back to sign-in, and back here afterwards", async () => {
+    const { page, context } = browser;
+    await context.clearCookies();
+    const form = page.getByRole("form", { name: "Invite a member" });
+    await form.getByLabel("E-mail address").fill("late@example.com");
+    await form.getByRole("button", { name: "Send invitation" }).click();
+    await page.getByRole("heading", { name: "Sign in" }).waitFor();
+    expect(new URL(page.url()).searchParams.get("redirectTo")).toBe("/app/members");
+
+    await page.getByLabel("E-mail").fill(demo.owner);
+    await page.getByLabel("Password").fill(demo.password);
+    await page.getByRole("button", { name: "Sign in" }).click();
+    await page.getByRole("heading", { name: "Members", level: 1 }).waitFor();
+  });
 });

@@ -43,6 +43,10 @@ function MemberRow({ member, workshopId, isSelf, canManage }: { member: Member; 
           <p role="alert" className="mt-1 text-caption text-rust-700">
             {error.message}
           </p>
+        ) : updateRole.isSuccess ? (
+          <p role="status" className="mt-1 text-caption text-moss-600">
+            Role changed to {roleLabels[member.role] ?? member.role}.
+          </p>
         ) : null}
       </div>
       <div className="flex flex-wrap items-center gap-2">
