@@ -28,6 +28,8 @@ export async function bootstrap(env: Env, logger: Logger = createLogger(env.LOG_
   const auth = createAuth({ db, env, mailer });
   const storage = createStorage(env.DATA_DIR, { quotaBytes: env.WORKSHOP_QUOTA_MB * 1024 * 1024, minFreeBytes: env.MIN_FREE_DISK_MB * 1024 * 1024 });
   storage.sweepIncoming();
+  const reconciled = storage.reconcile(db);
+  if (reconciled.orphanFiles || reconciled.missingFiles) logger.warn(reconciled, "reconciled stored recordings with their rows after an unclean stop");
   // One analysis thread per spare core: the event loop keeps a core for HTTP.
   const threads = env.ANALYSIS_THREADS ?? Math.max(1, availableParallelism() - 1);
   const pool = createAnalysisPool({ maxThreads: threads, maxQueue: threads * 4 });

@@ -66,6 +66,31 @@ export function createStorage(dataDir: string, limits: { quotaBytes: number; min
       }
       return keys;
     },
+    /**
+     * After a crash: a file moved into the store whose row never committed is removed, and a row
+     * whose file is gone is failed with a reason, so files and rows always match one to one.
+     */
+    reconcile(db: Db): { orphanFiles: number; missingFiles: number } {
+      const rows = db.select({ id: strike.id, fileKey: strike.fileKey, state: strike.state }).from(strike).all();
+      const known = new Set(rows.map((r) => r.fileKey));
+      const keys = this.listKeys();
+      const onDisk = new Set(keys);
+      let orphanFiles = 0;
+      for (const key of keys) {
+        if (!known.has(key)) {
+          rmSync(path.join(root, key), { force: true });
+          orphanFiles++;
+        }
+      }
+      let missingFiles = 0;
+      for (const r of rows) {
+        if (!onDisk.has(r.fileKey) && (r.state === "queued" || r.state === "analysing")) {
+          db.update(strike).set({ state: "failed", failureCode: "missing_file", failureReason: "The stored recording is missing from the server's disk, so it could not be analysed. Upload the strike again." }).where(eq(strike.id, r.id)).run();
+          missingFiles++;
+        }
+      }
+      return { orphanFiles, missingFiles };
+    },
     /** Removes half-received uploads left by a crash. */
     sweepIncoming() {
       for (const f of readdirSync(incoming)) rmSync(path.join(incoming, f), { force: true });
