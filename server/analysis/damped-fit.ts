@@ -272,7 +272,7 @@ export function fitOrders(y: Float64Array, dt: number, withOrder2: boolean): { o
     .slice(0, 1);
   let two: DampedFit | null = null;
   for (const { s } of scored) {
-    const f = refine(y, dt, s, 25);
+    const f = refine(y, dt, s, 60);
     if (f && (!two || f.ssr < two.ssr)) two = f;
   }
   return { one, two };

@@ -26,7 +26,7 @@ export interface PartialRequest {
 
 export interface RefinedPartial {
   partial: Partial;
-  /** Order-1 decay rate and its standard uncertainty, 1/s: used to recognise steady tones. */
+  /** Decay rate 1/τ of the reported partial and its standard uncertainty, 1/s: used to recognise steady tones. */
   alpha: number;
   alphaUncertainty: number;
   envelope: { timeS: number[]; levelDb: number[]; noiseFloorDb: number };
@@ -103,17 +103,27 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
     sub[2 * i] = y1[2 * i * stride];
     sub[2 * i + 1] = y1[2 * i * stride + 1];
   }
-  const quick = fitOrders(sub, band.dt * stride, false).one;
+  const quickFits = fitOrders(sub, band.dt * stride, true);
+  let quick = quickFits.one;
+  if (quickFits.two && (!quick || informationCriterion(quickFits.two) < informationCriterion(quick))) quick = quickFits.two;
   if (!quick) return null;
   const sigma1 = Math.sqrt(quick.sigma2);
-  const m0 = { alpha: quick.modes[0].alpha };
-  const a0 = Math.hypot(quick.modes[0].re, quick.modes[0].im);
   const t0 = (r.segStart + mStart * (r.M / band.K)) / r.sampleRate;
   let tEnd = (r.segStart + mEndMax * (r.M / band.K)) / r.sampleRate;
-  if (m0.alpha > 0 && a0 > 2 * sigma1) {
-    // Stop where the fitted envelope falls to twice the noise RMS (6 dB above the floor).
-    tEnd = Math.min(tEnd, t0 + Math.log(a0 / (2 * sigma1)) / m0.alpha);
+  // Stop where the fitted envelope (Σ|aₖ|·e^(−αₖt)) falls to twice the noise RMS, 6 dB above the floor.
+  const env = (t: number) => quick!.modes.reduce((sum, m) => sum + Math.hypot(m.re, m.im) * Math.exp(-m.alpha * t), 0);
+  if (env(tEnd - t0) < 2 * sigma1 && env(0) > 2 * sigma1) {
+    let lo = 0;
+    let hi = tEnd - t0;
+    for (let i = 0; i < 40; i++) {
+      const mid = (lo + hi) / 2;
+      if (env(mid) > 2 * sigma1) lo = mid;
+      else hi = mid;
+    }
+    tEnd = t0 + hi;
   }
+  const slowest = Math.min(...quick.modes.map((m) => m.alpha));
+  const m0 = { alpha: slowest };
 
   // Pass 2 rate: fine enough for the decay (dt ≤ τ/10) and 500–1000 samples in the fit window
   // (more adds work, not information: the band holds the partial's whole spectrum either way);
@@ -143,6 +153,7 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
     const s = noiseWhite(f) / 2;
     return f.inverseNormal ? f.inverseNormal.map((v) => v * s) : null;
   };
+  if (process.env.TINELOG_DEBUG_LM && two) console.error("IC", informationCriterion(one), informationCriterion(two), validTwo(two, cov(two), band, n), JSON.stringify(two.modes));
   let chosen: DampedFit = one;
   let kind: "single" | "doublet" | "twoStage" = "single";
   if (two && informationCriterion(two) < informationCriterion(one) && validTwo(two, cov(two), band, n)) {
@@ -241,8 +252,6 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
   const sigma = Math.sqrt(chosen.sigma2);
   const fitR2 = envelopeR2(y, chosen, band.dt);
   const decayDb = (20 / Math.LN10) * (endOfRecordingS - onsetS) / tauS;
-  const single = one.modes[0];
-  const C1 = cov(one);
   const partial: Partial = {
     frequencyHz,
     frequencyUncertaintyHz,
@@ -262,21 +271,23 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
   };
   return {
     partial,
-    alpha: single.alpha,
-    alphaUncertainty: C1 ? Math.sqrt(Math.max(C1[2 * 4 + 2], 0)) : Infinity,
+    alpha: 1 / tauS,
+    alphaUncertainty: Number.isFinite(tauUncertaintyS) ? tauUncertaintyS / (tauS * tauS) : Infinity,
     envelope: envelopeSeries(band, nSeg, r.segStart, r.sampleRate, sigma),
   };
 }
 
 function validTwo(f: DampedFit, C: Float64Array | null, band: Band, n: number): boolean {
   if (!C) return false;
-  const np = 8;
   const flatHalfRad = 2 * Math.PI * (band.K / 4) * (1 / (band.K * band.dt));
   for (let k = 0; k < 2; k++) {
     const m = f.modes[k];
     const a2 = m.re * m.re + m.im * m.im;
-    const va = C[4 * k * np + 4 * k] + C[(4 * k + 1) * np + 4 * k + 1];
-    if (!(a2 > 9 * va)) return false; // each mode's amplitude must be clearly non-zero
+    // Each mode must carry real energy over the window (≥ 25 noise variances): the amplitudes of
+    // two close modes are strongly correlated, so their individual uncertainties say little.
+    const decay = Math.exp(-2 * m.alpha * band.dt);
+    const energy = Math.abs(1 - decay) < 1e-12 ? a2 * n : (a2 * (1 - Math.pow(decay, n))) / (1 - decay);
+    if (!(energy > 25 * f.sigma2)) return false;
     if (!(m.alpha * band.dt < 0.3)) return false; // not a leftover of the strike transient
     if (!(m.alpha > -1 / (n * band.dt))) return false; // not growing
     if (Math.abs(m.omega) > flatHalfRad) return false; // inside the flat part of the band
