@@ -90,4 +90,43 @@ describe("joining a workshop by invitation", () => {
     await page.getByRole("heading", { name: "Not found" }).waitFor();
     await screenshot(page, "e2e-invitation-not-found");
   });
+
+  it("someone who already has an account (in another workshop) signs in on the landing, joins, and can switch", async () => {
+    const { page } = browser;
+    // The owner invites the other workshop's owner as a maker.
+    await page.goto(`${server.baseUrl}/app`);
+    await page.getByRole("button", { name: "Sign out" }).click();
+    await page.getByRole("heading", { name: "Sign in" }).waitFor();
+    await signInThroughForm(page, server.baseUrl, demo.owner);
+    await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
+    await page.goto(`${server.baseUrl}/app/members`);
+    const form = page.getByRole("form", { name: "Invite a member" });
+    await form.getByLabel("E-mail address").fill(demo.other);
+    await form.getByLabel("Role").selectOption("maker");
+    await form.getByRole("button", { name: "Send invitation" }).click();
+    await form.getByText(`Invitation sent to ${demo.other}`).waitFor();
+    await page.goto(`${server.baseUrl}/app/outbox`);
+    await page.getByRole("list", { name: "Sent mail" }).getByRole("link").filter({ hasText: `To ${demo.other}` }).click();
+    const text = (await page.getByRole("article").locator("pre").textContent()) ?? "";
+    const link = text.match(/https?:\/\/\S+\/invite\/\S+/)?.[0] ?? "";
+    expect(link).not.toBe("");
+    await page.getByRole("button", { name: "Sign out" }).click();
+    await page.getByRole("heading", { name: "Sign in" }).waitFor();
+
+    await page.goto(link);
+    await page.getByRole("button", { name: "Have an account" }).click();
+    const signIn = page.getByRole("form", { name: "Sign in" });
+    expect(await signIn.getByLabel("E-mail").inputValue()).toBe(demo.other);
+    await signIn.getByLabel("Password").fill(demo.password);
+    await signIn.getByRole("button", { name: "Sign in" }).click();
+    await page.getByRole("button", { name: `Join ${demo.workshopName}` }).click();
+    await page.getByText(`${demo.workshopName} · you work here as Maker.`).waitFor();
+
+    const switcher = page.getByLabel("Switch workshop");
+    expect((await switcher.locator("option").allTextContents()).sort()).toEqual([demo.workshopName, "Fernhollow Chime Co."]);
+    await switcher.selectOption({ label: "Fernhollow Chime Co." });
+    await page.getByText("Fernhollow Chime Co. · you work here as Owner.").waitFor();
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Members" }).waitFor();
+    await screenshot(page, "e2e-portrait-switched-to-own-workshop");
+  });
 });

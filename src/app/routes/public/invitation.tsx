@@ -109,8 +109,8 @@ function SignedOut({ invitation }: { invitation: PublicInvitation }) {
       <div role="group" aria-label="How do you want to continue?" className="grid grid-cols-2 gap-1 rounded-control border border-line-strong p-1">
         {(
           [
-            ["sign-up", "I'm new to Tinelog"],
-            ["sign-in", "I have an account"],
+            ["sign-up", "New to Tinelog"],
+            ["sign-in", "Have an account"],
           ] as const
         ).map(([value, label]) => (
           <button
@@ -118,7 +118,7 @@ function SignedOut({ invitation }: { invitation: PublicInvitation }) {
             type="button"
             aria-pressed={mode === value}
             onClick={() => setMode(value)}
-            className={`min-h-touch rounded-[0.4rem] px-3 font-medium ${mode === value ? "bg-steel-600 text-white" : "text-ink-soft hover:bg-sunken"}`}
+            className={`min-h-touch whitespace-nowrap rounded-[0.4rem] px-2 font-medium ${mode === value ? "bg-steel-600 text-white" : "text-ink-soft hover:bg-sunken"}`}
           >
             {label}
           </button>
