@@ -10,6 +10,7 @@ import { startCaptureServer, type CaptureServer } from "./mail/capture.ts";
 import { createMailer } from "./mail/mailer.ts";
 import type { AppDeps } from "./app.ts";
 import { createInProcessQueue } from "./services/analysis-queue.ts";
+import { createRedisQueue } from "./services/redis-queue.ts";
 import { createStorage } from "./services/storage.ts";
 import { createAnalysisPool } from "./workers/analysis-pool.ts";
 import { availableParallelism } from "node:os";
@@ -33,7 +34,9 @@ export async function bootstrap(env: Env, logger: Logger = createLogger(env.LOG_
   // One analysis thread per spare core: the event loop keeps a core for HTTP.
   const threads = env.ANALYSIS_THREADS ?? Math.max(1, availableParallelism() - 1);
   const pool = createAnalysisPool({ maxThreads: threads, maxQueue: threads * 4 });
-  const queue = createInProcessQueue({ db, sqlite, storage, logger, pool, concurrency: threads * 2 });
+  const queue = env.REDIS_URL
+    ? createRedisQueue({ db, sqlite, storage, logger, pool, redisUrl: env.REDIS_URL, concurrency: threads * 2 })
+    : createInProcessQueue({ db, sqlite, storage, logger, pool, concurrency: threads * 2 });
   // The signing key lives beside the database, never inside it: a copy of the database alone cannot forge.
   const key = loadOrCreateSigningKey(path.join(env.DATA_DIR, "keys"));
   const certificates = { db, mailer, key, dataDir: env.DATA_DIR, baseUrl: env.baseUrl, analyserVersion: ANALYSER_VERSION };
