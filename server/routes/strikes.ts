@@ -89,6 +89,8 @@ export function strikeRoutes(deps: AppDeps) {
       if (header.channels > LIMITS.maxChannels) throw new HttpError(422, "unprocessable", `The file has ${header.channels} channels; at most ${LIMITS.maxChannels} are accepted.`, { audio: "Too many channels" });
       if (header.durationS > LIMITS.maxDurationS) throw new HttpError(422, "unprocessable", `The recording is ${Math.round(header.durationS)} s long; at most ${LIMITS.maxDurationS} s are accepted. Trim it to the strike and its ring.`, { audio: "Too long" });
       const fields = strikeUploadFieldsSchema.parse(req.body ?? {});
+      // Again with the real size: a chunked upload declares none before it is read.
+      storage.checkRoom(db, workshopOf(req).id, file.size);
       const sha256 = await storage.sha256Of(file.path);
       assertNotDuplicate(db, unitId, sha256);
       const actor = { workshopId: workshopOf(req).id, userId: userOf(req).id };
