@@ -61,7 +61,7 @@ function fourcc(bytes: Uint8Array, at: number): string {
  * that the data chunk fits in the file. Throws AnalysisInputError with a message for the maker.
  */
 export function readWavHeader(bytes: Uint8Array, opts?: { fileSize?: number }): WavHeader {
-  const l = parseWavLayout(bytes, opts?.fileSize);
+  const l = parseWavLayout(bytes, opts?.fileSize ?? Infinity);
   return {
     sampleRate: l.sampleRate,
     channels: l.channels,
@@ -72,7 +72,10 @@ export function readWavHeader(bytes: Uint8Array, opts?: { fileSize?: number }): 
   };
 }
 
-/** Full layout (offsets) of a WAV file; `fileSize` defaults to bytes.length when omitted. */
+/**
+ * Full layout (offsets) of a WAV file. `fileSize` defaults to bytes.length (the whole file);
+ * Infinity means "bytes is a prefix of unknown length" (no check that the data chunk fits).
+ */
 export function parseWavLayout(bytes: Uint8Array, fileSize?: number): WavLayout {
   const isPrefix = fileSize !== undefined && fileSize > bytes.length;
   const total = fileSize ?? bytes.length;
