@@ -83,3 +83,18 @@ describe("error shape and request checks", () => {
     expect(res.headers["x-powered-by"]).toBeUndefined();
   });
 });
+
+describe("behind https", () => {
+  it("marks the session cookie Secure and sends HSTS when the base URL is https", async () => {
+    const secure = await startTestApp({ DEMO_STRIKES: "0", BASE_URL: "https://tinelog.example" });
+    try {
+      const res = await request(secure.app).post("/api/auth/sign-in/email").set("Origin", "https://tinelog.example").send({ email: "maker@example.com", password: "tinelog-demo" });
+      expect(res.status).toBe(200);
+      const cookie = ([] as string[]).concat(res.headers["set-cookie"] ?? []).find((c) => c.includes("session_token"));
+      expect(cookie).toMatch(/; Secure/i);
+      expect((await request(secure.app).get("/api/health")).headers["strict-transport-security"]).toMatch(/max-age=/);
+    } finally {
+      await secure.close();
+    }
+  });
+});
