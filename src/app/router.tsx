@@ -9,7 +9,7 @@ import { paths } from "@/config/paths";
 import { ApiError } from "@/lib/api-client";
 import { PageLoading } from "./page-loading";
 import { AppRoot, appLoader } from "./routes/app/root";
-import { BatchesRoute, SpecificationsRoute } from "./routes/app/coming-later";
+import { BatchesRoute, SpecificationsRoute, batchesLoader, specificationsLoader } from "./routes/app/coming-later";
 import { DashboardRoute } from "./routes/app/dashboard";
 import { MembersRoute, membersLoader } from "./routes/app/members";
 import { OutboxMessageRoute, outboxMessageLoader } from "./routes/app/outbox-message";
@@ -57,8 +57,8 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
               errorElement: <RouteError embedded />,
               children: [
                 { index: true, element: <DashboardRoute /> },
-                { path: paths.app.batches.path, element: <BatchesRoute /> },
-                { path: paths.app.specifications.path, element: <SpecificationsRoute /> },
+                { path: paths.app.batches.path, loader: batchesLoader(queryClient), element: <BatchesRoute /> },
+                { path: paths.app.specifications.path, loader: specificationsLoader(queryClient), element: <SpecificationsRoute /> },
                 { path: paths.app.members.path, loader: membersLoader(queryClient), element: <MembersRoute /> },
                 { path: paths.app.outbox.path, loader: outboxLoader(queryClient), element: <OutboxRoute /> },
                 { path: paths.app.outboxMessage.path, loader: outboxMessageLoader(queryClient), element: <OutboxMessageRoute /> },

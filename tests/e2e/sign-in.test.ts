@@ -50,6 +50,15 @@ describe("signing in as the demo maker", () => {
     await screenshot(page, "e2e-maker-dashboard");
   });
 
+  it("says plainly that batches are not built yet, with no made-up rows", async () => {
+    const { page } = browser;
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: /^Batches/ }).click();
+    await page.getByRole("heading", { name: "Batches", level: 1 }).waitFor();
+    await page.getByText("Batches arrive with the ledger.").waitFor();
+    expect(await page.getByRole("table").count()).toBe(0);
+    await screenshot(page, "e2e-maker-batches");
+  });
+
   it("answers a page the maker may not use with a plain 403 message", async () => {
     const { page } = browser;
     await page.goto(`${server.baseUrl}/app/members`);

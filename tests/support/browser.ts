@@ -10,18 +10,26 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { chromium, type BrowserContext, type Page } from "playwright-core";
+import { DEMO_PASSWORD, DEMO_USERS, DEMO_WORKSHOP, OTHER_WORKSHOP } from "../../seeds/demo.ts";
 
 export const repoRoot = fileURLToPath(new URL("../..", import.meta.url));
 export const screenshotDir = path.join(repoRoot, ".tmp");
 
-/** Demo accounts seeded by seeds/demo.ts (DESIGN.md §9). */
+const demoEmail = (role: string, workshop: "demo" | "other") => {
+  const found = DEMO_USERS.find((u) => u.role === role && u.workshop === workshop);
+  if (!found) throw new Error(`seeds/demo.ts has no ${role} in the ${workshop} workshop; the browser tests sign in as one.`);
+  return found.email;
+};
+
+/** The demo accounts, read from the seed itself (seeds/demo.ts, DESIGN.md §9) so the two cannot drift. */
 export const demo = {
-  password: "tinelog-demo",
-  owner: "owner@example.com",
-  qa: "qa@example.com",
-  maker: "maker@example.com",
-  other: "other@example.com",
-  workshopName: "Brightwater Tuning Works",
+  password: DEMO_PASSWORD,
+  owner: demoEmail("owner", "demo"),
+  qa: demoEmail("qa", "demo"),
+  maker: demoEmail("maker", "demo"),
+  other: demoEmail("owner", "other"),
+  workshopName: DEMO_WORKSHOP.name,
+  otherWorkshopName: OTHER_WORKSHOP.name,
 } as const;
 
 // ---------------------------------------------------------------------------------------------

@@ -1,4 +1,19 @@
+import type { QueryClient } from "@tanstack/react-query";
+import type { LoaderFunctionArgs } from "react-router";
 import { PageHeader, Panel } from "@/components/ui/panel";
+import { assertCan } from "@/lib/authorization";
+import { requireWorkshop } from "@/app/loaders";
+
+/** Same guard as the finished pages will have, so a role that may not read them is told so now. */
+export const batchesLoader = (queryClient: QueryClient) => async ({ request }: LoaderFunctionArgs) => {
+  assertCan(await requireWorkshop(queryClient, request), "batch", "read", "reading batches");
+  return null;
+};
+
+export const specificationsLoader = (queryClient: QueryClient) => async ({ request }: LoaderFunctionArgs) => {
+  assertCan(await requireWorkshop(queryClient, request), "spec", "read", "reading specifications");
+  return null;
+};
 
 /** A screen that is listed in the navigation but not built yet: it says so, and shows no made-up data. */
 function ComingLater({ title, what, arrives }: { title: string; what: string; arrives: string }) {
