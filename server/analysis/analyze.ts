@@ -138,10 +138,14 @@ export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } =
     fftMs += tb - ta;
 
     const groups = groupPeaks(peaks.map((p) => p.frequencyHz));
-    const allHz = peaks.map((p) => p.frequencyHz);
+    const powerOf = new Map(peaks.map((p) => [p.frequencyHz, p.powerDb]));
     const refined: Array<{ r: RefinedPartial; hum: boolean }> = [];
     for (const group of groups.slice(0, MAX_PARTIALS)) {
-      const others = allHz.filter((f) => !group.includes(f));
+      // Neighbours that limit the band: peaks outside the group no more than 20 dB weaker. Weaker
+      // ones inside the band act as a little extra noise; excluding them would shrink the band
+      // until too few samples remain.
+      const level = Math.max(...group.map((f) => powerOf.get(f)!));
+      const others = peaks.filter((p) => !group.includes(p.frequencyHz) && p.powerDb >= level - 20).map((p) => p.frequencyHz);
       const lo = Math.min(...group);
       const hi = Math.max(...group);
       const neighbourHz = others.length ? Math.min(...others.map((f) => (f < lo ? lo - f : f > hi ? f - hi : 0))) : Infinity;

@@ -153,10 +153,10 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
     const s = noiseWhite(f) / 2;
     return f.inverseNormal ? f.inverseNormal.map((v) => v * s) : null;
   };
-  if (process.env.TINELOG_DEBUG_LM && two) console.error("IC", informationCriterion(one), informationCriterion(two), validTwo(two, cov(two), band, n), JSON.stringify(two.modes));
+  if (process.env.TINELOG_DEBUG_LM && two) console.error("IC", informationCriterion(one), informationCriterion(two), validTwo(two, cov(two), band, n, y), JSON.stringify(two.modes));
   let chosen: DampedFit = one;
   let kind: "single" | "doublet" | "twoStage" = "single";
-  if (two && informationCriterion(two) < informationCriterion(one) && validTwo(two, cov(two), band, n)) {
+  if (two && informationCriterion(two) < informationCriterion(one) && validTwo(two, cov(two), band, n, y)) {
     const C = cov(two)!;
     const np = 8;
     const [p, q] = two.modes;
@@ -167,7 +167,7 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
     if (Math.abs(dw) > 3 * Math.sqrt(Math.max(varDw, 0))) kind = "doublet";
     else if (Math.abs(da) > 3 * Math.sqrt(Math.max(varDa, 0))) kind = "twoStage";
     if (kind !== "single") chosen = two;
-  } else if (r.peaksHz.length > 1 && two && validTwo(two, cov(two), band, n)) {
+  } else if (r.peaksHz.length > 1 && two && validTwo(two, cov(two), band, n, y)) {
     // Two peaks the FFT already resolved: two modes by construction.
     chosen = two;
     kind = "doublet";
@@ -187,7 +187,10 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
   const fitEndS = (r.segStart + mEnd * step) / r.sampleRate;
   const onsetS = r.onsetSample / r.sampleRate;
   const endOfRecordingS = (r.segStart + r.segLen) / r.sampleRate;
-  const back = fitStartS - onsetS;
+  // Amplitudes are reported at the end of the strike transient, common to all partials of the
+  // strike: extrapolating a fast decay further back, into the transient, would inflate it.
+  const amplitudeAtS = r.fitStartSample / r.sampleRate;
+  const back = fitStartS - amplitudeAtS;
 
   // Combined frequency and τ: power-weighted means (weights at the fit start), with their variance
   // from the full covariance, Σ wₖwₗ·Cov.
@@ -256,6 +259,7 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
     frequencyHz,
     frequencyUncertaintyHz,
     amplitudeDb: 20 * Math.log10(amplitude),
+    amplitudeAtS,
     tauS,
     tauUncertaintyS,
     t60S: tauS * LN_1000,
@@ -277,9 +281,12 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
   };
 }
 
-function validTwo(f: DampedFit, C: Float64Array | null, band: Band, n: number): boolean {
+function validTwo(f: DampedFit, C: Float64Array | null, band: Band, n: number, y: Float64Array): boolean {
   if (!C) return false;
   const flatHalfRad = 2 * Math.PI * (band.K / 4) * (1 / (band.K * band.dt));
+  let dataEnergy = 0;
+  for (let i = 0; i < y.length; i++) dataEnergy += y[i] * y[i];
+  let modeEnergy = 0;
   for (let k = 0; k < 2; k++) {
     const m = f.modes[k];
     const a2 = m.re * m.re + m.im * m.im;
@@ -288,11 +295,13 @@ function validTwo(f: DampedFit, C: Float64Array | null, band: Band, n: number): 
     const decay = Math.exp(-2 * m.alpha * band.dt);
     const energy = Math.abs(1 - decay) < 1e-12 ? a2 * n : (a2 * (1 - Math.pow(decay, n))) / (1 - decay);
     if (!(energy > 25 * f.sigma2)) return false;
+    modeEnergy += energy;
     if (!(m.alpha * band.dt < 0.3)) return false; // not a leftover of the strike transient
     if (!(m.alpha > -1 / (n * band.dt))) return false; // not growing
     if (Math.abs(m.omega) > flatHalfRad) return false; // inside the flat part of the band
   }
-  return true;
+  // Two large modes that cancel each other are an ill-conditioned fit, not two modes.
+  return modeEnergy < 4 * dataEnergy;
 }
 
 /** R² of the fitted envelope (modes plus the noise floor) against the data, in dB, over blocks. */

@@ -28,6 +28,9 @@ export const partialSchema = z.object({
   frequencyUncertaintyHz: z.number(),
   /** Initial amplitude relative to digital full scale, dBFS. */
   amplitudeDb: z.number(),
+  /** Time (s from the file start) at which amplitudeDb applies: the end of the strike transient,
+   *  the same instant for every partial of a strike (added by the analysis engine). */
+  amplitudeAtS: z.number().optional(),
   /** Amplitude time constant τ, s (x ∝ e^(−t/τ)). */
   tauS: z.number(),
   /** Standard uncertainty of τ (k = 1), s. */

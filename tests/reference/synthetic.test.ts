@@ -29,7 +29,9 @@ describe("isolated partials (analytic ground truth)", () => {
       // T60 = τ·ln 1000 and Q = π·f·τ (DESIGN.md §1).
       expect(p.t60S).toBeCloseTo(p.tauS * LN_1000, 9);
       expect(p.q).toBeCloseTo(Math.PI * p.frequencyHz * p.tauS, 6);
-      expect(p.amplitudeDb).toBeCloseTo(20 * Math.log10(t.amplitude), 0);
+      // amplitudeDb applies at amplitudeAtS: A·e^(−(t − onset)/τ) there.
+      const at = p.amplitudeAtS! - 0.15;
+      expect(Math.abs(p.amplitudeDb - 20 * Math.log10(t.amplitude * Math.exp(-at / t.tauS)))).toBeLessThan(0.1);
       expect(p.beatHz).toBeNull();
       expect(p.tauUnreliable).toBe(false);
       expect(p.fitR2).toBeGreaterThan(0.99);
