@@ -28,14 +28,26 @@ export function findOnsets(x: Float64Array, sampleRate: number): Onsets {
   const hop = Math.max(16, Math.round(sampleRate * HOP_S));
   const nf = Math.floor(x.length / hop);
   const levelDb = new Float64Array(nf);
+  // Second curve: the level of the first difference x[n] − x[n−1], which lifts broadband energy
+  // (the hammer's contact) over the ringing partials (gain 2·sin(πf/fs): −25 dB at 440 Hz, 48 kHz).
+  // A re-strike of a unit that is still ringing barely raises the plain level but shows here —
+  // the idea of high-frequency-content onset detection (Bello et al., "A tutorial on onset
+  // detection in music signals", IEEE Trans. Speech Audio Process. 13(5), 2005).
+  const hfDb = new Float64Array(nf);
+  let prev = 0;
   for (let f = 0; f < nf; f++) {
     let e = 0;
+    let h = 0;
     const base = f * hop;
     for (let i = 0; i < hop; i++) {
       const v = x[base + i];
       e += v * v;
+      const d = v - prev;
+      h += d * d;
+      prev = v;
     }
     levelDb[f] = 10 * Math.log10(e / hop + 1e-20);
+    hfDb[f] = 10 * Math.log10(h / hop + 1e-20);
   }
   const sorted = Float64Array.from(levelDb).sort();
   const quietDb = nf > 0 ? sorted[Math.floor(nf * 0.02)] : -200;
@@ -55,25 +67,31 @@ export function findOnsets(x: Float64Array, sampleRate: number): Onsets {
     onsets.push(0);
     last = 0;
   }
+  const hfSorted = Float64Array.from(hfDb).sort();
+  const hfQuiet = hfSorted[Math.floor(nf * 0.02)];
+  const rises = (c: Float64Array, q: number, f: number) => {
+    const l = c[f];
+    if (l < q + ABOVE_QUIET_DB || l - c[f - 2] < RISE_DB) return false;
+    let recentMax = -Infinity;
+    for (let g = Math.max(0, f - recent); g <= f - 3; g++) recentMax = Math.max(recentMax, c[g]);
+    return f < 3 || l >= recentMax + ABOVE_RECENT_DB;
+  };
   for (let f = 2; f < nf; f++) {
     if (f - last < refractory) continue;
-    const l = levelDb[f];
-    if (l < quietDb + ABOVE_QUIET_DB) continue;
-    if (l - levelDb[f - 2] < RISE_DB) continue;
-    let recentMax = -Infinity;
-    for (let g = Math.max(0, f - recent); g <= f - 3; g++) recentMax = Math.max(recentMax, levelDb[g]);
-    if (f >= 3 && l < recentMax + ABOVE_RECENT_DB) continue;
-    // Refine to the sample: the first sample in the rising frames above a tenth of their peak.
-    const lo = (f - 2) * hop;
+    if (levelDb[f] < quietDb + ABOVE_QUIET_DB) continue;
+    if (!rises(levelDb, quietDb, f) && !rises(hfDb, hfQuiet, f)) continue;
+    // Refine to the sample on the first difference (it jumps at the strike even while the unit
+    // still rings): the first sample in the rising frames above a tenth of their peak and above
+    // 5× the RMS before the rise.
+    const lo = Math.max(1, (f - 2) * hop);
     const hi = Math.min(x.length, (f + 1) * hop);
     let peak = 0;
-    for (let i = lo; i < hi; i++) peak = Math.max(peak, Math.abs(x[i]));
-    // …and above 5× the RMS before the rise, so background noise does not trigger it early.
-    const before = Math.sqrt(10 ** (levelDb[Math.max(0, f - 3)] / 10));
+    for (let i = lo; i < hi; i++) peak = Math.max(peak, Math.abs(x[i] - x[i - 1]));
+    const before = Math.sqrt(10 ** (hfDb[Math.max(0, f - 3)] / 10));
     const threshold = Math.max(0.1 * peak, 5 * before);
     let onset = lo;
     for (let i = lo; i < hi; i++) {
-      if (Math.abs(x[i]) >= threshold) {
+      if (Math.abs(x[i] - x[i - 1]) >= threshold) {
         onset = i;
         break;
       }
