@@ -14,7 +14,7 @@ import type { Db, Sqlite } from "./db/client.ts";
 import type { Env } from "./env.ts";
 import type { Logger } from "./logger.ts";
 import type { Mailer } from "./mail/mailer.ts";
-import { contextMiddleware } from "./middleware/context.ts";
+import { contextMiddleware, createSessionCache, sessionToken } from "./middleware/context.ts";
 import { apiNotFound, errorHandler } from "./middleware/errors.ts";
 import { sameOriginJson } from "./middleware/origin.ts";
 import { batchRoutes } from "./routes/batches.ts";
@@ -26,6 +26,7 @@ import { strikeRoutes } from "./routes/strikes.ts";
 import { workshopRoutes } from "./routes/workshop.ts";
 import type { AnalysisQueue } from "./services/analysis-queue.ts";
 import type { CertificateDeps } from "./services/certificates.ts";
+import type { ReadCache } from "./services/read-cache.ts";
 import type { Storage } from "./services/storage.ts";
 
 export type AppDeps = {
@@ -38,6 +39,7 @@ export type AppDeps = {
   storage: Storage;
   queue: AnalysisQueue;
   certificates: CertificateDeps;
+  readCache: ReadCache;
 };
 
 const clientDir = fileURLToPath(new URL("../dist/client", import.meta.url));
@@ -72,8 +74,10 @@ export function createApp(deps: AppDeps) {
   // better-auth sees a Web Request without the socket, so it rate-limits by X-Forwarded-For. Give it
   // the client address Express resolved (trusting forwarded headers only from loopback proxies), so a
   // client can neither spoof its way past the limit nor share one bucket with everyone.
+  const sessions = createSessionCache();
   app.use("/api/auth", (req, _res, next) => {
     req.headers["x-forwarded-for"] = req.ip ?? req.socket.remoteAddress ?? "unknown";
+    sessions.forget(sessionToken(req.headers.cookie)); // sign-out, switching workshop: re-read the session
     next();
   });
   // better-auth reads its own body, so it goes before express.json().
@@ -81,7 +85,7 @@ export function createApp(deps: AppDeps) {
 
   const api = express.Router();
   api.use(express.json({ limit: "1mb" }));
-  api.use(contextMiddleware(deps.auth, deps.db));
+  api.use(contextMiddleware(deps.auth, deps.db, sessions));
   api.use(sameOriginJson(deps.env.trustedOrigins));
   for (const router of apiRouters(deps)) api.use(router);
   api.use(apiNotFound);

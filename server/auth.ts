@@ -26,7 +26,9 @@ export function createAuth({ db, env, mailer }: AuthDeps) {
     telemetry: { enabled: false },
     database: drizzleAdapter(db, { provider: "sqlite", schema }),
     emailAndPassword: { enabled: true, minPasswordLength: 10, autoSignIn: true },
-    session: { expiresIn: 60 * 60 * 24 * 7, updateAge: 60 * 60 * 24 },
+    // cookieCache: the session is re-read from SQLite at most every 30 s, not on every poll of a bench
+    // tablet; a sign-out or removal takes effect within that time.
+    session: { expiresIn: 60 * 60 * 24 * 7, updateAge: 60 * 60 * 24, cookieCache: { enabled: true, maxAge: 30 } },
     databaseHooks: {
       session: {
         create: {

@@ -11,6 +11,7 @@ import { createMailer } from "./mail/mailer.ts";
 import type { AppDeps } from "./app.ts";
 import { createInProcessQueue } from "./services/analysis-queue.ts";
 import { createRedisQueue } from "./services/redis-queue.ts";
+import { createReadCache } from "./services/read-cache.ts";
 import { createStorage } from "./services/storage.ts";
 import { createAnalysisPool } from "./workers/analysis-pool.ts";
 import { availableParallelism } from "node:os";
@@ -40,7 +41,7 @@ export async function bootstrap(env: Env, logger: Logger = createLogger(env.LOG_
   // The signing key lives beside the database, never inside it: a copy of the database alone cannot forge.
   const key = loadOrCreateSigningKey(path.join(env.DATA_DIR, "keys"));
   const certificates = { db, mailer, key, dataDir: env.DATA_DIR, baseUrl: env.baseUrl, analyserVersion: ANALYSER_VERSION };
-  const deps: AppDeps = { env, db, sqlite, auth, mailer, logger, storage, queue, certificates };
+  const deps: AppDeps = { env, db, sqlite, auth, mailer, logger, storage, queue, certificates, readCache: createReadCache(sqlite) };
   if (env.SEED_DEMO) await seedDemo(deps);
   return {
     ...deps,

@@ -38,11 +38,53 @@ export function listWorkshops(db: Db, userId: string): Workshop[] {
     .map((w) => ({ ...w, slug: w.slug ?? w.id, role: w.role as RoleName }));
 }
 
-export function contextMiddleware(auth: Auth, db: Db) {
+type Found = Awaited<ReturnType<Auth["api"]["getSession"]>>;
+
+/** The session cookie's value, whichever name better-auth gave it (`__Secure-` behind https). */
+export function sessionToken(cookieHeader: string | undefined): string | null {
+  const m = /(?:^|;\s*)(?:__Secure-)?better-auth\.session_token=([^;]+)/.exec(cookieHeader ?? "");
+  return m ? m[1] : null;
+}
+
+/**
+ * better-auth's getSession costs about a millisecond; a bench tablet polls every second. Sessions are
+ * kept here for a few seconds per token; any request to /api/auth/* with that token (sign-out,
+ * switching workshop) forgets it at once. Roles are always read fresh below.
+ */
+export function createSessionCache(ttlMs = 5000, max = 5000) {
+  const entries = new Map<string, { found: Found; at: number }>();
+  return {
+    get(token: string): Found | undefined {
+      const e = entries.get(token);
+      if (!e) return undefined;
+      if (Date.now() - e.at > ttlMs) {
+        entries.delete(token);
+        return undefined;
+      }
+      return e.found;
+    },
+    set(token: string, found: Found) {
+      entries.set(token, { found, at: Date.now() });
+      if (entries.size > max) entries.delete(entries.keys().next().value!);
+    },
+    forget(token: string | null) {
+      if (token) entries.delete(token);
+    },
+  };
+}
+export type SessionCache = ReturnType<typeof createSessionCache>;
+
+export function contextMiddleware(auth: Auth, db: Db, cache: SessionCache) {
   return async (req: Request, _res: Response, next: NextFunction) => {
     req.ctx = { user: null, sessionId: null, workshop: null };
     try {
-      const found = await auth.api.getSession({ headers: fromNodeHeaders(req.headers) });
+      const token = sessionToken(req.headers.cookie);
+      if (!token) return next();
+      let found = cache.get(token);
+      if (found === undefined) {
+        found = await auth.api.getSession({ headers: fromNodeHeaders(req.headers) });
+        if (found) cache.set(token, found);
+      }
       if (!found) return next();
       const { user, session } = found;
       req.ctx.user = { id: user.id, name: user.name, email: user.email };

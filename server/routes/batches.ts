@@ -5,19 +5,22 @@ import { addUnits, createBatch, findBatch, getBatch, ledgerCsv, listBatches, mar
 import { nextUnmeasured } from "../services/strikes.ts";
 import type { AppDeps } from "../app.ts";
 
-export function batchRoutes({ db, sqlite }: AppDeps) {
+export function batchRoutes({ db, sqlite, readCache }: AppDeps) {
   const r = Router();
   const read = requirePermission("batch", "read");
   const actor = (req: Parameters<typeof workshopOf>[0]) => ({ workshopId: workshopOf(req).id, userId: userOf(req).id });
 
   r.get("/batches", read, (req, res) => {
-    res.json({ batches: listBatches(db, workshopOf(req).id) });
+    const w = workshopOf(req).id;
+    res.json({ batches: readCache.get(`batches:${w}`, () => listBatches(db, w)) });
   });
   r.post("/batches", requirePermission("batch", "create"), (req, res) => {
     res.status(201).json(createBatch(db, actor(req), createBatchSchema.parse(req.body)));
   });
   r.get("/batches/:id", read, (req, res) => {
-    res.json(getBatch(db, workshopOf(req).id, String(req.params.id)));
+    const w = workshopOf(req).id;
+    const id = String(req.params.id);
+    res.json(readCache.get(`batch:${w}:${id}`, () => getBatch(db, w, id)));
   });
   r.get("/batches/:id/next-unit", read, (req, res) => {
     const b = findBatch(db, workshopOf(req).id, String(req.params.id));

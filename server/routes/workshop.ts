@@ -15,7 +15,7 @@ export const workshopProfileSchema = z.object({
   certificatePrefix: z.string().trim().regex(/^[A-Z0-9-]{1,12}$/, "Capital letters, digits and - (at most 12)"),
 });
 
-export function workshopRoutes({ db }: AppDeps) {
+export function workshopRoutes({ db, readCache }: AppDeps) {
   const r = Router();
 
   r.get("/workshop", requirePermission("workshop", "read"), (req, res) => {
@@ -36,7 +36,8 @@ export function workshopRoutes({ db }: AppDeps) {
   });
 
   r.get("/dashboard", requirePermission("batch", "read"), (req, res) => {
-    const batches = listBatches(db, workshopOf(req).id);
+    const w = workshopOf(req).id;
+    const batches = readCache.get(`batches:${w}`, () => listBatches(db, w));
     res.json({
       openBatches: batches.filter((b) => b.state !== "released"),
       awaitingReview: batches.reduce((n, b) => n + (b.state !== "released" ? b.outOfTolerance + b.inconclusive : 0), 0),
