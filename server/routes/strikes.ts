@@ -14,8 +14,8 @@ import { strikeUploadFieldsSchema } from "../../shared/schemas/strike.ts";
 import { serialFromFileName } from "../../shared/serials.ts";
 import { AnalysisInputError } from "../analysis/errors.ts";
 import { readWavHeader } from "../analysis/wav.ts";
-import { and, asc, eq } from "drizzle-orm";
-import { unit } from "../db/schema.ts";
+import { and, asc, count, eq, inArray } from "drizzle-orm";
+import { strike, unit } from "../db/schema.ts";
 import { badRequest, conflict, HttpError } from "../http-error.ts";
 import { requirePermission, userOf, workshopOf } from "../middleware/guards.ts";
 import { audit } from "../services/audit.ts";
@@ -46,6 +46,10 @@ export function strikeRoutes(deps: AppDeps) {
     }
     try {
       storage.checkRoom(db, workshopOf(req).id, declared);
+      const [{ waiting }] = db.select({ waiting: count() }).from(strike).where(inArray(strike.state, ["queued", "analysing"])).all();
+      if (waiting >= env.ANALYSIS_QUEUE) {
+        throw new HttpError(503, "busy", `The analysis queue is full (${waiting} recordings waiting). Nothing was stored; upload again in a minute.`);
+      }
       next();
     } catch (error) {
       next(error);

@@ -112,6 +112,7 @@ export function createInProcessQueue(deps: { db: Db; sqlite: Sqlite; storage: St
     notify: () => setImmediate(pump),
     drained: () => new Promise<void>((resolve) => { waiters.push(resolve); settle(); }),
     async close() {
+      if (closed) return;
       closed = true;
       if (retryTimer) clearTimeout(retryTimer);
       await pool.close();

@@ -106,3 +106,22 @@ describe("upload checks", () => {
     }
   });
 });
+
+describe("a full analysis queue", () => {
+  it("answers 503 busy and stores nothing when too many recordings wait", async () => {
+    const busy = await startTestApp({ DEMO_STRIKES: "1", ANALYSIS_QUEUE: "1" });
+    try {
+      // The demo seed has just queued ten strikes; stop the runner so they stay waiting (over the bound of 1).
+      await busy.runtime.queue.close();
+      const open = busy.runtime.db.select().from(batch).where(eq(batch.code, "BTW-2612")).get()!;
+      const u = busy.runtime.db.select().from(unit).where(eq(unit.batchId, open.id)).all()[0];
+      const before = busy.runtime.db.select().from(strike).all().length;
+      const res = await (await busy.as("maker")).post(`/api/units/${u.id}/strikes`).set("Origin", ORIGIN).attach("audio", Buffer.from(forkWav({ frequencyHz: 440, seed: 8 })), "wait.wav");
+      expect(res.status).toBe(503);
+      expect(res.body.error).toMatchObject({ code: "busy", message: expect.stringMatching(/queue is full/) });
+      expect(busy.runtime.db.select().from(strike).all().length).toBe(before);
+    } finally {
+      await busy.close();
+    }
+  });
+});
