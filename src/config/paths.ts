@@ -19,16 +19,33 @@ export const paths = {
     createWorkshop: { path: "/create-workshop", getHref: () => "/create-workshop" },
   },
 
-  /** Pages anyone may open without signing in (the invitation landing now; certificate verification later). */
+  /** Pages anyone may open without signing in: the invitation landing and certificate verification. */
   public: {
     invitation: { path: "/invite/:id", getHref: (id: string) => `/invite/${encodeURIComponent(id)}` },
+    verify: { path: "/verify/:code", getHref: (code: string) => `/verify/${encodeURIComponent(code)}` },
   },
+
+  /**
+   * A strike's analysis page, inside the signed-in shell. Callable (`paths.strike(id)`) and in the
+   * same `{ path, getHref }` shape as the others.
+   */
+  strike: Object.assign((id: string) => `/strikes/${encodeURIComponent(id)}`, {
+    path: "/strikes/:strikeId",
+    getHref: (id: string) => `/strikes/${encodeURIComponent(id)}`,
+  }),
 
   app: {
     root: { path: "/app", getHref: () => "/app" },
     dashboard: { path: "", getHref: () => "/app" },
     batches: { path: "batches", getHref: () => "/app/batches" },
+    newBatch: { path: "batches/new", getHref: () => "/app/batches/new" },
+    batch: { path: "batches/:batchId", getHref: (id: string) => `/app/batches/${encodeURIComponent(id)}` },
+    unit: { path: "units/:unitId", getHref: (id: string) => `/app/units/${encodeURIComponent(id)}` },
     specifications: { path: "specifications", getHref: () => "/app/specifications" },
+    newSpecification: { path: "specifications/new", getHref: (family?: string) => `/app/specifications/new${family ? `?family=${encodeURIComponent(family)}` : ""}` },
+    specification: { path: "specifications/:specId", getHref: (id: string) => `/app/specifications/${encodeURIComponent(id)}` },
+    editSpecification: { path: "specifications/:specId/edit", getHref: (id: string) => `/app/specifications/${encodeURIComponent(id)}/edit` },
+    settings: { path: "settings", getHref: () => "/app/settings" },
     members: { path: "members", getHref: () => "/app/members" },
     outbox: { path: "outbox", getHref: () => "/app/outbox" },
     outboxMessage: { path: "outbox/:id", getHref: (id: string) => `/app/outbox/${encodeURIComponent(id)}` },
