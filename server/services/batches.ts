@@ -1,7 +1,7 @@
 /** Batches, their units and the ledger view (units with their latest evaluation). */
 import { randomUUID } from "node:crypto";
 import { and, asc, desc, eq, inArray, max } from "drizzle-orm";
-import type { BatchDetail, BatchSummary, CreateBatchInput, AddUnitsInput, LedgerRow, DispositionDecision } from "../../shared/schemas/batch.ts";
+import type { BatchDetail, BatchStatistics, BatchSummary, CreateBatchInput, AddUnitsInput, LedgerRow, DispositionDecision } from "../../shared/schemas/batch.ts";
 import type { EvaluationView } from "../../shared/schemas/evaluation.ts";
 import type { Family } from "../../shared/schemas/spec.ts";
 import { expandSerialRange, SerialRangeError } from "../../shared/serials.ts";
@@ -120,7 +120,21 @@ export function getBatch(db: Db, workshopId: string, batchId: string): BatchDeta
   const rows = ledgerRows(db, row.id);
   const partials = db.select().from(specPartial).where(eq(specPartial.specVersionId, row.specVersionId)).orderBy(asc(specPartial.position)).all();
   const fund = partials.find((p) => p.isFundamental) ?? partials[0];
-  return { ...summarize(db, row, rows), notes: row.notes, rows, fundamentalToleranceCents: fund?.toleranceCents ?? null, minT60S: fund?.minT60S ?? null };
+  return { ...summarize(db, row, rows), notes: row.notes, rows, statistics: statistics(rows), fundamentalToleranceCents: fund?.toleranceCents ?? null, minT60S: fund?.minT60S ?? null };
+}
+
+function statistics(rows: LedgerRow[]): BatchStatistics {
+  const dev = rows.map((r) => r.deviationCents).filter((d): d is number => d !== null);
+  const t60 = rows.map((r) => r.t60S).filter((d): d is number => d !== null).sort((a, b) => a - b);
+  const mean = dev.length ? dev.reduce((a, b) => a + b, 0) / dev.length : null;
+  const sd = mean !== null && dev.length > 1 ? Math.sqrt(dev.reduce((a, d) => a + (d - mean) ** 2, 0) / (dev.length - 1)) : null;
+  const mid = t60.length >> 1;
+  return {
+    measured: rows.filter((r) => r.verdict !== null).length,
+    meanDeviationCents: mean,
+    sdDeviationCents: sd,
+    medianT60S: t60.length ? (t60.length % 2 ? t60[mid] : (t60[mid - 1] + t60[mid]) / 2) : null,
+  };
 }
 
 function serialsOf(input: { serials?: string[]; range?: { from: string; to: string } }): string[] {

@@ -191,6 +191,8 @@ export function getStrike(db: Db, workshopId: string, strikeId: string): StrikeD
     encoding: row.encoding,
     finishedAt: row.finishedAt?.toISOString() ?? null,
     result,
+    warnings: result?.warnings ?? [],
+    strikes: result?.strikes.map(({ plot: _plot, ...seg }) => seg) ?? [],
     unit: { id: u.id, serial: u.serial, batchId: b.id, batchCode: b.code },
     labels,
   };

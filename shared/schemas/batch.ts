@@ -77,9 +77,19 @@ export type LedgerRow = {
   open: boolean;
 };
 
+export type BatchStatistics = {
+  measured: number;
+  /** Mean and sample standard deviation of the fundamental's deviation over measured units, cents. */
+  meanDeviationCents: number | null;
+  sdDeviationCents: number | null;
+  /** Median T60 of the fundamental over measured units, s. */
+  medianT60S: number | null;
+};
+
 export type BatchDetail = BatchSummary & {
   notes: string;
   rows: LedgerRow[];
+  statistics: BatchStatistics;
   /** Tolerance of the fundamental, cents, and minimum T60, s, from the spec version (for charts). */
   fundamentalToleranceCents: number | null;
   minT60S: number | null;

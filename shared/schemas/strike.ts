@@ -53,6 +53,9 @@ export type StrikeDetail = StrikeSummary & {
   finishedAt: string | null;
   /** The analysis result, with plot series, when state is done. */
   result: AnalysisResult | null;
+  /** DESIGN.md §9 fields at the top level (from `result`, without the plot series); empty until done. */
+  warnings: AnalysisResult["warnings"];
+  strikes: Omit<AnalysisResult["strikes"][number], "plot">[];
   unit: { id: string; serial: string; batchId: string; batchCode: string };
   /** Labels of the spec's partials matched to this strike's partials: index in result.strikes[0].partials → label. */
   labels: Record<number, string>;

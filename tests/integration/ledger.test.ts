@@ -99,6 +99,9 @@ describe("strike upload and evaluation", () => {
     const unit = (await (await t.as("maker")).get(`/api/units/${units[0].id}`)).body;
     expect(unit.strikes[0].state).toBe("done");
     expect(unit.evaluation.verdict).toBe("within_tolerance");
+    const strikeView = (await (await t.as("maker")).get(`/api/strikes/${res.body.id}`)).body;
+    expect(strikeView.strikes[0].partials[0]).toMatchObject({ frequencyHz: expect.any(Number), tauS: expect.any(Number), t60S: expect.any(Number), q: expect.any(Number), beatHz: null });
+    expect(strikeView.warnings).toEqual(expect.any(Array));
     const fund = unit.evaluation.requirements[0];
     expect(fund.deviationCents).toBeCloseTo(1, 1); // synthesised at +1 cent
     expect(fund.expandedUncertaintyHz).toBeGreaterThan(0);
