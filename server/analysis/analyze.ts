@@ -96,7 +96,12 @@ export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } =
   // No rise found: the recording may have started after the strike (or hold only noise). Analyse
   // it as one strike from the start; if nothing rings in it, it is noise.
   const assumedStrike = seg.onsets.length === 0;
-  if (assumedStrike) seg.onsets.push(0);
+  if (assumedStrike) {
+    // Start where the level first comes within 10 dB of its maximum (skips a quiet lead-in).
+    const max = Math.max(...seg.levelDb);
+    const f = Math.max(0, seg.levelDb.findIndex((l) => l >= max - 10));
+    seg.onsets.push(f * seg.hop);
+  }
   for (let s = 0; s < seg.onsets.length; s++) {
     const onset = seg.onsets[s];
     const segEnd = s + 1 < seg.onsets.length ? seg.onsets[s + 1] : mono.length;

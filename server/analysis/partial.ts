@@ -146,7 +146,7 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
   const n = mEnd - mStart + 1;
 
   // Pass 2: one and two modes over the fit window; the information criterion chooses.
-  const { one, two } = fitOrders(y, band.dt, true);
+  const { one, two } = fitOrders(y, band.dt, true, r.peaksHz.length > 1);
   if (!one) return null;
   const noiseWhite = (f: DampedFit) => f.sigma2 / band!.taperPower;
   const cov = (f: DampedFit) => {
@@ -300,8 +300,9 @@ function validTwo(f: DampedFit, C: Float64Array | null, band: Band, n: number, y
     if (!(m.alpha > -1 / (n * band.dt))) return false; // not growing
     if (Math.abs(m.omega) > flatHalfRad) return false; // inside the flat part of the band
   }
-  // Two large modes that cancel each other are an ill-conditioned fit, not two modes.
-  return modeEnergy < 4 * dataEnergy;
+  // Two huge modes that cancel each other are an ill-conditioned fit, not two modes. Real doublets
+  // can start nearly in anti-phase (the sum then grows as the beat turns), so allow 20 dB.
+  return modeEnergy < 100 * dataEnergy;
 }
 
 /** R² of the fitted envelope (modes plus the noise floor) against the data, in dB, over blocks. */

@@ -6,7 +6,7 @@ export interface Onsets {
   /** Frame hop, samples, and the per-frame level, dB re full scale (mean square). */
   hop: number;
   levelDb: Float64Array;
-  /** Level of the quietest frames (2nd percentile), dB: a rough broadband floor for segmentation. */
+  /** Level of the quietest 25 ms, dB: a rough broadband floor for segmentation. */
   quietDb: number;
 }
 
@@ -17,8 +17,9 @@ const RISE_DB = 9;
 /** …and exceed everything in the preceding 200 ms by this much, dB, so beats in a ringing partial
  *  (whose envelope never exceeds its earlier peaks) are not taken for a new strike. */
 const ABOVE_RECENT_DB = 6;
-/** …and stand this far above the quiet level, dB. */
-const ABOVE_QUIET_DB = 20;
+/** …and stand this far above the quietest 25 ms, dB. The level of 5 ms frames of steady noise
+ *  wanders by well under 1 dB, so 12 dB keeps noise out while a strike at 20 dB SNR is found. */
+const ABOVE_QUIET_DB = 12;
 /** Minimum spacing of strikes, s. */
 const REFRACTORY_S = 0.25;
 export const MAX_STRIKES = 16;
@@ -49,8 +50,7 @@ export function findOnsets(x: Float64Array, sampleRate: number): Onsets {
     levelDb[f] = 10 * Math.log10(e / hop + 1e-20);
     hfDb[f] = 10 * Math.log10(h / hop + 1e-20);
   }
-  const sorted = Float64Array.from(levelDb).sort();
-  const quietDb = nf > 0 ? sorted[Math.floor(nf * 0.02)] : -200;
+  const quietDb = quietest(levelDb);
   const onsets: number[] = [];
   if (nf < 3) return { onsets, hop, levelDb, quietDb };
   const recent = Math.round(0.2 / HOP_S);
@@ -67,8 +67,7 @@ export function findOnsets(x: Float64Array, sampleRate: number): Onsets {
     onsets.push(0);
     last = 0;
   }
-  const hfSorted = Float64Array.from(hfDb).sort();
-  const hfQuiet = hfSorted[Math.floor(nf * 0.02)];
+  const hfQuiet = quietest(hfDb);
   const rises = (c: Float64Array, q: number, f: number) => {
     const l = c[f];
     if (l < q + ABOVE_QUIET_DB || l - c[f - 2] < RISE_DB) return false;
@@ -104,4 +103,19 @@ export function findOnsets(x: Float64Array, sampleRate: number): Onsets {
     if (onsets.length >= MAX_STRIKES) break;
   }
   return { onsets, hop, levelDb, quietDb };
+}
+
+/** Lowest 5-frame (25 ms) mean level, dB: the background, even when only a short pre-roll holds it. */
+function quietest(db: Float64Array): number {
+  const n = db.length;
+  if (n === 0) return -200;
+  const w = Math.min(5, n);
+  let best = Infinity;
+  let sum = 0;
+  for (let i = 0; i < n; i++) {
+    sum += db[i];
+    if (i >= w) sum -= db[i - w];
+    if (i >= w - 1) best = Math.min(best, sum / w);
+  }
+  return best;
 }

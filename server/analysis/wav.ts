@@ -263,13 +263,11 @@ const CLIP_RUN = 3;
 export function decodeWav(bytes: Uint8Array): DecodedWav {
   const layout = parseWavLayout(bytes);
   const { channels: nc, frames, bitsPerSample: bits, encoding, dataOffset, blockAlign } = layout;
-  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   const mono = new Float64Array(frames);
   const sum = new Float64Array(nc);
   const sumSq = new Float64Array(nc);
   const cross = new Float64Array(nc);
   const peak = new Float64Array(nc);
-  const run = new Int32Array(nc);
   let lastClipped = -1;
   let clippedRuns = 0;
   const clipRegions: Array<[number, number]> = [];
@@ -279,51 +277,50 @@ export function decodeWav(bytes: Uint8Array): DecodedWav {
   // Full-scale thresholds: the largest code (or ±1.0 for float) counts as clipped.
   const clipLevel = encoding === "float" ? 0.99999 : 1 - 1.5 / 2 ** (bits - 1);
   const inv = 1 / nc;
-  const cur = new Float64Array(nc);
-  for (let i = 0; i < frames; i++) {
-    const base = dataOffset + i * blockAlign;
-    let mix = 0;
-    for (let c = 0; c < nc; c++) {
-      const p = base + c * (bits >> 3);
-      let v: number;
-      if (encoding === "pcm") {
-        if (bits === 16) v = view.getInt16(p, true) / 32768;
-        else if (bits === 24) {
-          const u = bytes[p] | (bytes[p + 1] << 8) | (bytes[p + 2] << 16);
-          v = ((u << 8) >> 8) / 8388608;
-        } else if (bits === 8) v = (bytes[p] - 128) / 128; // 8-bit WAV is unsigned, offset 128
-        else v = view.getInt32(p, true) / 2147483648;
-      } else {
-        v = bits === 32 ? view.getFloat32(p, true) : view.getFloat64(p, true);
-        if (!Number.isFinite(v)) {
+  const first = nc > 1 ? new Float64Array(frames) : new Float64Array(0);
+  const ch = new Float64Array(frames);
+  for (let c = 0; c < nc; c++) {
+    // One channel at a time, through a loop specialised for the sample format.
+    readChannel(bytes, dataOffset, blockAlign, c, frames, bits, encoding, ch);
+    let s1 = 0;
+    let s2 = 0;
+    let pk = 0;
+    let run = 0;
+    let x = 0;
+    for (let i = 0; i < frames; i++) {
+      let v = ch[i];
+      if (encoding === "float") {
+        if (v !== v || v === Infinity || v === -Infinity) {
           invalid++;
           v = 0;
-        } else if (Math.abs(v) > 1000) {
+        } else if (v > 1000 || v < -1000) {
           huge++;
           v = 0;
         }
+        ch[i] = v;
       }
-      cur[c] = v;
-      mix += v;
+      s1 += v;
+      s2 += v * v;
       const a = v < 0 ? -v : v;
-      if (a > peak[c]) peak[c] = a;
+      if (a > pk) pk = a;
       if (a >= clipLevel) {
-        run[c]++;
-        if (run[c] >= CLIP_RUN) {
-          if (run[c] === CLIP_RUN) clippedRuns++;
-          lastClipped = i;
-          const last = clipRegions[clipRegions.length - 1];
-          if (last && i - last[1] <= mergeGap) last[1] = i;
-          else clipRegions.push([i - CLIP_RUN + 1, i]);
+        run++;
+        if (run >= CLIP_RUN) {
+          if (run === CLIP_RUN) clippedRuns++;
+          if (i > lastClipped) lastClipped = i;
+          addClip(clipRegions, i, mergeGap);
         }
-      } else run[c] = 0;
-      sum[c] += v;
-      sumSq[c] += v * v;
+      } else run = 0;
+      mono[i] += v * inv;
+      if (c === 0) { if (nc > 1) first[i] = v; }
+      else x += first[i] * v;
     }
-    const first = cur[0];
-    for (let c = 1; c < nc; c++) cross[c] += first * cur[c];
-    mono[i] = mix * inv;
+    sum[c] = s1;
+    sumSq[c] = s2;
+    peak[c] = pk;
+    cross[c] = x;
   }
+  clipRegions.sort((p, q) => p[0] - q[0]);
   if (invalid > 0) {
     throw new AnalysisInputError("bad_format", `The recording contains ${invalid} invalid sample value${invalid === 1 ? "" : "s"} (not-a-number or infinite floats). The file is damaged; export the strike again.`);
   }
@@ -344,4 +341,42 @@ export function decodeWav(bytes: Uint8Array): DecodedWav {
     channelStats.push({ mean, rms: Math.sqrt(variance), peak: peak[c], correlationWithFirst: corr });
   }
   return { layout, mono, channelStats, lastClippedFrame: lastClipped, clippedRuns, clipRegions };
+}
+
+/** Adds a clipped sample to the regions, merging with a region that ends within `gap` frames. */
+function addClip(regions: Array<[number, number]>, i: number, gap: number): void {
+  for (let r = regions.length - 1; r >= Math.max(0, regions.length - 4); r--) {
+    const reg = regions[r];
+    if (i >= reg[0] - gap && i <= reg[1] + gap) {
+      if (i > reg[1]) reg[1] = i;
+      if (i - CLIP_RUN + 1 < reg[0]) reg[0] = i - CLIP_RUN + 1;
+      return;
+    }
+  }
+  regions.push([i - CLIP_RUN + 1, i]);
+}
+
+/** Channel `c` of the data chunk as floats (full scale ±1), one tight loop per format. */
+function readChannel(bytes: Uint8Array, dataOffset: number, blockAlign: number, c: number, frames: number, bits: number, encoding: SampleEncoding, out: Float64Array): void {
+  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  const bps = bits >> 3;
+  let p = dataOffset + c * bps;
+  if (encoding === "float") {
+    if (bits === 32) for (let i = 0; i < frames; i++, p += blockAlign) out[i] = view.getFloat32(p, true);
+    else for (let i = 0; i < frames; i++, p += blockAlign) out[i] = view.getFloat64(p, true);
+    return;
+  }
+  switch (bits) {
+    case 8:
+      for (let i = 0; i < frames; i++, p += blockAlign) out[i] = (bytes[p] - 128) / 128; // 8-bit WAV is unsigned, offset 128
+      return;
+    case 16:
+      for (let i = 0; i < frames; i++, p += blockAlign) out[i] = (((bytes[p] | (bytes[p + 1] << 8)) << 16) >> 16) / 32768;
+      return;
+    case 24:
+      for (let i = 0; i < frames; i++, p += blockAlign) out[i] = ((bytes[p] | (bytes[p + 1] << 8) | (bytes[p + 2] << 16)) << 8 >> 8) / 8388608;
+      return;
+    default:
+      for (let i = 0; i < frames; i++, p += blockAlign) out[i] = (bytes[p] | (bytes[p + 1] << 8) | (bytes[p + 2] << 16) | (bytes[p + 3] << 24)) / 2147483648;
+  }
 }

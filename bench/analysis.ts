@@ -1,0 +1,224 @@
+/**
+ * `npm run bench`: speed and accuracy of the analysis engine on generated strikes (fixed seeds).
+ * Speed: per file, median of 7 runs after 2 warm-ups, on the main thread (one core). Accuracy:
+ * errors against the analytic ground truth with the reported Cramér–Rao bound beside each.
+ * A benchmark, not a test: it prints figures and marks them against issue 3's targets.
+ */
+import { analyzeWavTimed, type AnalysisTimings } from "../server/analysis/index";
+import { synthWav, type SynthMode, type SynthSpec } from "../fixtures/synth";
+import type { Partial } from "../shared/schemas/analysis";
+
+const cents = (f: number, ref: number) => 1200 * Math.log2(f / ref);
+const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
+const fmt = (v: number, d = 2) => v.toFixed(d);
+
+// ---------------------------------------------------------------- speed
+const fork = (f0: number): SynthMode[] => [
+  { frequencyHz: f0, amplitude: 0.35, tauS: 2.0 },
+  { frequencyHz: f0 * 6.1, amplitude: 0.04, tauS: 0.25, phaseRad: 1 },
+];
+const bar = (f0: number): SynthMode[] => [1, 2.757, 5.404, 8.933].map((r, i) => ({ frequencyHz: f0 * r, amplitude: 0.3 / (i + 1), tauS: 1.5 / (i + 1) ** 1.5, phaseRad: i }));
+const bell = (f0: number): SynthMode[] => [
+  { frequencyHz: f0, amplitude: 0.25, tauS: 3 },
+  { frequencyHz: f0 + 0.7, amplitude: 0.2, tauS: 2.6, phaseRad: 2 },
+  { frequencyHz: f0 * 2.01, amplitude: 0.12, tauS: 1.5 },
+  { frequencyHz: f0 * 2.4, amplitude: 0.08, tauS: 1.1 },
+  { frequencyHz: f0 * 3.01, amplitude: 0.05, tauS: 0.7 },
+];
+
+const speedSet: Array<{ name: string; spec: SynthSpec; bits: 16 | 24 }> = [
+  { name: "fork 440 Hz, 5 s, 48 kHz (headline)", spec: { sampleRate: 48000, durationS: 5, seed: 1, snrDb: 50, strikes: [{ onsetS: 0.1, modes: fork(440), click: 0.1 }] }, bits: 24 },
+  { name: "fork 256 Hz, 1 s, 44.1 kHz", spec: { sampleRate: 44100, durationS: 1, seed: 2, snrDb: 45, strikes: [{ onsetS: 0.05, modes: fork(256) }] }, bits: 16 },
+  { name: "chime bar C5, 3 s, 44.1 kHz", spec: { sampleRate: 44100, durationS: 3, seed: 3, snrDb: 45, strikes: [{ onsetS: 0.1, modes: bar(523.25), click: 0.2 }] }, bits: 16 },
+  { name: "bell (doublet), 5 s, 96 kHz", spec: { sampleRate: 96000, durationS: 5, seed: 4, snrDb: 50, strikes: [{ onsetS: 0.1, modes: bell(311.1) }] }, bits: 24 },
+  { name: "fork 440 Hz, 10 s, 48 kHz", spec: { sampleRate: 48000, durationS: 10, seed: 5, snrDb: 50, strikes: [{ onsetS: 0.1, modes: fork(440) }] }, bits: 24 },
+  { name: "3 strikes of a bar, 8 s, 48 kHz", spec: { sampleRate: 48000, durationS: 8, seed: 6, snrDb: 45, strikes: [0.1, 2.8, 5.5].map((onsetS) => ({ onsetS, modes: bar(440), click: 0.2 })) }, bits: 16 },
+  { name: "bell (doublet), 20 s, 44.1 kHz", spec: { sampleRate: 44100, durationS: 20, seed: 7, snrDb: 55, strikes: [{ onsetS: 0.1, modes: bell(196) }] }, bits: 24 },
+  { name: "fork 128 Hz, 20 s, 96 kHz", spec: { sampleRate: 96000, durationS: 20, seed: 8, snrDb: 55, strikes: [{ onsetS: 0.1, modes: fork(128).map((m) => ({ ...m, tauS: m.tauS * 3 })) }] }, bits: 24 },
+];
+
+function zero(): AnalysisTimings {
+  return { decodeMs: 0, segmentMs: 0, fftMs: 0, refineMs: 0, totalMs: 0, partials: 0 };
+}
+
+console.log("Tinelog analysis benchmark — Node", process.version, "— one core (main thread)\n");
+console.log("SPEED (median of 7 runs after 2 warm-ups)");
+const header = ["file", "strikes", "partials", "ms/strike", "× real time", "decode", "segment", "FFT", "refine", "heap+buffers MB"];
+const rows: string[][] = [];
+const total = zero();
+let totalAudioS = 0;
+let totalStrikes = 0;
+for (const item of speedSet) {
+  const { bytes } = synthWav(item.spec, { bits: item.bits });
+  const runs: AnalysisTimings[] = [];
+  let strikes = 0;
+  let partials = 0;
+  let mem = 0;
+  for (let i = 0; i < 9; i++) {
+    const t = zero();
+    const r = analyzeWavTimed(bytes, {}, t);
+    const m = process.memoryUsage();
+    mem = Math.max(mem, m.heapUsed + m.arrayBuffers);
+    strikes = r.strikes.length;
+    partials = r.strikes.reduce((s, x) => s + x.partials.length, 0);
+    if (i >= 2) runs.push(t);
+  }
+  const pick = (k: keyof AnalysisTimings) => median(runs.map((r) => r[k]));
+  const ms = pick("totalMs");
+  rows.push([
+    item.name,
+    String(strikes),
+    String(partials),
+    fmt(ms / strikes, 1),
+    fmt((item.spec.durationS * 1000) / ms, 0),
+    fmt(pick("decodeMs"), 1),
+    fmt(pick("segmentMs"), 1),
+    fmt(pick("fftMs"), 1),
+    fmt(pick("refineMs"), 1),
+    fmt(mem / 1e6, 0),
+  ]);
+  for (const k of ["decodeMs", "segmentMs", "fftMs", "refineMs", "totalMs"] as const) total[k] += pick(k);
+  totalAudioS += item.spec.durationS;
+  totalStrikes += strikes;
+}
+rows.push(["TOTAL", String(totalStrikes), "", fmt(total.totalMs / totalStrikes, 1), fmt((totalAudioS * 1000) / total.totalMs, 0), fmt(total.decodeMs, 1), fmt(total.segmentMs, 1), fmt(total.fftMs, 1), fmt(total.refineMs, 1), ""]);
+printTable(header, rows);
+const ru = process.resourceUsage();
+console.log(`peak resident memory of the benchmark process: ${(ru.maxRSS / 1024).toFixed(0)} MB`);
+const headline = rows[0];
+console.log(`headline: 5 s 48 kHz mono strike in ${headline[3]} ms (target ≤ 50 ms, ≥ 100× real time: ${Number(headline[3]) <= 50 ? "MET" : "NOT MET"})\n`);
+
+// ---------------------------------------------------------------- accuracy
+interface Err {
+  f: number; // |error| in cents
+  uf: number; // reported u(f) in cents
+  tau: number; // |error| in %
+  utau: number; // reported u(τ) in %
+}
+function errOf(p: { frequencyHz: number; frequencyUncertaintyHz: number; tauS: number; tauUncertaintyS: number }, m: SynthMode): Err {
+  return {
+    f: Math.abs(cents(p.frequencyHz, m.frequencyHz)),
+    uf: Math.abs(cents(m.frequencyHz + p.frequencyUncertaintyHz, m.frequencyHz)),
+    tau: (100 * Math.abs(p.tauS - m.tauS)) / m.tauS,
+    utau: (100 * p.tauUncertaintyS) / m.tauS,
+  };
+}
+function nearest(ps: Partial[], hz: number): Partial | undefined {
+  return [...ps].sort((a, b) => Math.abs(a.frequencyHz - hz) - Math.abs(b.frequencyHz - hz))[0];
+}
+
+console.log("ACCURACY against analytic ground truth (worst case over seeds; CRB = the reported standard uncertainty, k = 1)");
+const acc: string[][] = [];
+const SEEDS = 12;
+function isolated(label: string, snrDb: number, fTarget: number, tTarget: number) {
+  const worst: Err = { f: 0, uf: 0, tau: 0, utau: 0 };
+  let z2f = 0;
+  let z2t = 0;
+  let n = 0;
+  let missing = 0;
+  for (const f0 of [220, 440, 1000, 3150]) {
+    for (const tau of [0.3, 1, 3]) {
+      for (let s = 0; s < SEEDS / 4; s++) {
+        const m = { frequencyHz: f0 * (1 + 0.001 * s), amplitude: 0.3, tauS: tau, phaseRad: s };
+        const { bytes } = synthWav({ sampleRate: 48000, durationS: 2.5, seed: 1000 + n, snrDb, strikes: [{ onsetS: 0.1, modes: [m] }] }, { bits: 32, float: true });
+        const p = nearest(analyzeWavTimed(bytes).strikes[0]?.partials ?? [], m.frequencyHz);
+        n++;
+        if (!p || Math.abs(cents(p.frequencyHz, m.frequencyHz)) > 50) {
+          missing++;
+          continue;
+        }
+        const e = errOf(p, m);
+        if (e.f > worst.f) [worst.f, worst.uf] = [e.f, e.uf];
+        if (e.tau > worst.tau) [worst.tau, worst.utau] = [e.tau, e.utau];
+        z2f += (e.f / e.uf) ** 2;
+        z2t += (e.tau / e.utau) ** 2;
+      }
+    }
+  }
+  acc.push([
+    label,
+    String(n),
+    String(missing),
+    `${worst.f.toExponential(2)} c (CRB ${worst.uf.toExponential(2)})`,
+    `≤ ${fTarget} c: ${worst.f <= fTarget && missing === 0 ? "MET" : "NOT MET"}`,
+    `${fmt(worst.tau, 3)} % (CRB ${fmt(worst.utau, 3)})`,
+    `≤ ${tTarget} %: ${worst.tau <= tTarget && missing === 0 ? "MET" : "NOT MET"}`,
+    `${fmt(Math.sqrt(z2f / (n - missing)), 2)} / ${fmt(Math.sqrt(z2t / (n - missing)), 2)}`,
+  ]);
+}
+isolated("isolated, SNR 60 dB", 60, 0.01, 1);
+isolated("isolated, SNR 40 dB", 40, 0.01, 1);
+isolated("isolated, SNR 20 dB", 20, 0.2, 5);
+printTable(["case (f 220–3150 Hz, τ 0.3–3 s, 2.5 s at 48 kHz)", "runs", "missed", "worst |f error|", "target", "worst |τ error|", "target", "RMS(err/CRB) f / τ"], acc);
+
+console.log("\nDOUBLETS (600 Hz + Δf, τ 1.0 / 0.9 s, amplitudes 0.3 / 0.25, 4 s at 48 kHz; T = 4 s)");
+const dub: string[][] = [];
+for (const [label, df, snr] of [
+  ["Δf = 0.15/T, SNR 60 dB", 0.15 / 4, 60],
+  ["Δf = 0.15/T, SNR 40 dB", 0.15 / 4, 40],
+  ["Δf = 0.5/T, SNR 40 dB", 0.5 / 4, 40],
+  ["Δf = 1/T, SNR 40 dB", 1 / 4, 40],
+  ["Δf = 3 Hz, SNR 40 dB", 3, 40],
+] as const) {
+  let worstF = 0;
+  let worstUf = 0;
+  let worstBeat = 0;
+  let worstUbeat = 0;
+  let worstTau = 0;
+  let worstUtau = 0;
+  let found = 0;
+  const runs = 8;
+  for (let s = 0; s < runs; s++) {
+    const a = { frequencyHz: 600, amplitude: 0.3, tauS: 1.0 };
+    const b = { frequencyHz: 600 + df, amplitude: 0.25, tauS: 0.9, phaseRad: 1 + s };
+    const { bytes } = synthWav({ sampleRate: 48000, durationS: 4, seed: 2000 + s, snrDb: snr, strikes: [{ onsetS: 0.2, modes: [a, b] }] }, { bits: 32, float: true });
+    const ps = analyzeWavTimed(bytes).strikes[0]?.partials ?? [];
+    const p = ps.find((x) => x.beatHz !== null && Math.abs(x.frequencyHz - 600) < 5);
+    if (!p || !p.modes) continue;
+    found++;
+    const beatErr = (100 * Math.abs(p.beatHz! - df)) / df;
+    const uBeat = (100 * Math.hypot(p.modes[0].frequencyUncertaintyHz, p.modes[1].frequencyUncertaintyHz)) / df;
+    if (beatErr > worstBeat) [worstBeat, worstUbeat] = [beatErr, uBeat];
+    p.modes.forEach((m, i) => {
+      const e = errOf(m, i === 0 ? a : b);
+      if (e.f > worstF) [worstF, worstUf] = [e.f, e.uf];
+      if (e.tau > worstTau) [worstTau, worstUtau] = [e.tau, e.utau];
+    });
+  }
+  const ok = found === runs && worstF <= 0.05 && worstBeat <= 5 && worstTau <= 3;
+  dub.push([label, `${found}/${runs}`, `${worstF.toExponential(2)} c (CRB ${worstUf.toExponential(2)})`, `${fmt(worstBeat, 2)} % (CRB ${fmt(worstUbeat, 2)})`, `${fmt(worstTau, 2)} % (CRB ${fmt(worstUtau, 2)})`, ok ? "MET" : "NOT MET"]);
+}
+printTable(["case", "both modes found", "worst |f error| (≤ 0.05 c)", "worst beat error (≤ 5 %)", "worst |τ error| (≤ 3 %)", "targets"], dub);
+
+console.log("\nHUM AND SPURIOUS PARTIALS");
+let humReported = 0;
+let humRuns = 0;
+let spurious = 0;
+let cleanRuns = 0;
+for (let s = 0; s < 12; s++) {
+  const mains = s % 2 === 0 ? 50 : 60;
+  const modes = bar(261.63 + 13 * s);
+  const { bytes } = synthWav({ sampleRate: 48000, durationS: 3, seed: 3000 + s, snrDb: 50, hum: { mainsHz: mains, amplitude: 0.02, harmonics: 10 }, strikes: [{ onsetS: 0.3, modes }] }, { bits: 24 });
+  const ps = analyzeWavTimed(bytes).strikes[0]?.partials ?? [];
+  humRuns++;
+  for (const p of ps) {
+    const h = Math.round(p.frequencyHz / mains);
+    if (h >= 1 && h <= 10 && Math.abs(p.frequencyHz - h * mains) < 1 && !modes.some((m) => Math.abs(m.frequencyHz - p.frequencyHz) < 1)) humReported++;
+  }
+  const clean = synthWav({ sampleRate: 48000, durationS: 3, seed: 4000 + s, snrDb: 50, strikes: [{ onsetS: 0.1, modes: s % 3 === 0 ? bell(300 + 20 * s) : s % 3 === 1 ? bar(300 + 20 * s) : fork(300 + 20 * s), click: 0.2 }] }, { bits: 24 });
+  const truth = s % 3 === 0 ? bell(300 + 20 * s) : s % 3 === 1 ? bar(300 + 20 * s) : fork(300 + 20 * s);
+  const cps = analyzeWavTimed(clean.bytes).strikes[0]?.partials ?? [];
+  cleanRuns++;
+  const top = Math.max(...cps.map((p) => p.amplitudeDb));
+  for (const p of cps) if (p.amplitudeDb > top - 20 && !truth.some((m) => Math.abs(cents(p.frequencyHz, m.frequencyHz)) < 5)) spurious++;
+}
+console.log(`hum (50/60 Hz + 10 harmonics, 12 strikes): ${humReported} hum lines reported as partials (target 0: ${humReported === 0 ? "MET" : "NOT MET"})`);
+console.log(`clean strikes (forks, bars, bells; 12): ${spurious} spurious partials within 20 dB of the strongest (target 0: ${spurious === 0 ? "MET" : "NOT MET"})`);
+
+function printTable(head: string[], body: string[][]) {
+  const w = head.map((h, i) => Math.max(h.length, ...body.map((r) => (r[i] ?? "").length)));
+  const line = (r: string[]) => "| " + r.map((c, i) => (i === 0 ? c.padEnd(w[i]) : c.padStart(w[i]))).join(" | ") + " |";
+  console.log(line(head));
+  console.log("|" + w.map((x, i) => (i === 0 ? "-".repeat(x + 2) : "-".repeat(x + 1) + ":")).join("|") + "|");
+  for (const r of body) console.log(line(r));
+}
