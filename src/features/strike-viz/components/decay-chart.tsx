@@ -1,0 +1,112 @@
+/**
+ * One partial's decay: its envelope (dBFS) against time, the fitted exponential as a straight
+ * line in dB, the evaluation (fit) range shaded, the noise floor, the two slopes of a two-stage
+ * decay, and the beat of a doublet.
+ *
+ * The fitted line: x ∝ e^(−t/τ) gives a level of A − 20·log10(e)·(t − t0)/τ dB, and
+ * 20·log10(e) = 8.686 dB per neper (IEC 60027-3 relates the neper and the decibel).
+ */
+import { useMemo } from "react";
+import type uPlot from "uplot";
+import type { Partial, StrikePlot } from "@shared/schemas/analysis";
+import { chartColours } from "../lib/colours";
+import { fixed } from "../lib/format";
+import { UplotChart, type ChartOptions } from "./uplot-chart";
+
+/** 20·log10(e): dB per neper of amplitude. */
+export const DB_PER_NEPER = 20 * Math.LOG10E;
+
+/** Level of a decay fitted as A at t0 with time constant τ, dB at time t (s). */
+export function fittedLevelDb(amplitudeDb: number, t0: number, tauS: number, t: number): number {
+  return amplitudeDb - (DB_PER_NEPER * (t - t0)) / tauS;
+}
+
+export function DecayChart({ partial, envelope, label, height = 220 }: { partial: Partial; envelope: StrikePlot["envelopes"][number]; label: string; height?: number }) {
+  const t0 = partial.amplitudeAtS ?? partial.fitStartS;
+  const two = partial.twoStage ?? null;
+
+  const data = useMemo<uPlot.AlignedData>(() => {
+    const t = envelope.timeS;
+    const inFit = (x: number) => x >= partial.fitStartS && x <= partial.fitEndS;
+    const fit = t.map((x) => (inFit(x) && !two ? fittedLevelDb(partial.amplitudeDb, t0, partial.tauS, x) : null));
+    const series: (number | null)[][] = [envelope.levelDb, fit, t.map(() => envelope.noiseFloorDb)];
+    if (two) {
+      // The two stages meet at the knee: the late line starts where the early one ends.
+      const kneeLevel = fittedLevelDb(partial.amplitudeDb, t0, two.earlyTauS, two.kneeS);
+      series.push(t.map((x) => (inFit(x) && x <= two.kneeS ? fittedLevelDb(partial.amplitudeDb, t0, two.earlyTauS, x) : null)));
+      series.push(t.map((x) => (inFit(x) && x >= two.kneeS ? fittedLevelDb(kneeLevel, two.kneeS, two.lateTauS, x) : null)));
+    }
+    return [t, ...series];
+  }, [envelope, partial, t0, two]);
+
+  const options = useMemo<ChartOptions>(() => {
+    const shade = (u: uPlot) => {
+      const ctx = u.ctx;
+      const x0 = u.valToPos(partial.fitStartS, "x", true);
+      const x1 = u.valToPos(partial.fitEndS, "x", true);
+      const { top, height: h, left, width } = u.bbox;
+      const a = Math.max(left, Math.min(x0, x1));
+      const b = Math.min(left + width, Math.max(x0, x1));
+      ctx.save();
+      ctx.fillStyle = chartColours.fitBand;
+      ctx.fillRect(a, top, Math.max(0, b - a), h);
+      if (two) {
+        const k = u.valToPos(two.kneeS, "x", true);
+        ctx.strokeStyle = chartColours.early;
+        ctx.setLineDash([2, 3]);
+        ctx.beginPath();
+        ctx.moveTo(k, top);
+        ctx.lineTo(k, top + h);
+        ctx.stroke();
+      }
+      ctx.restore();
+    };
+    const levels = [...envelope.levelDb.filter((v) => Number.isFinite(v)), envelope.noiseFloorDb];
+    const yMin = Math.min(...levels);
+    const yMax = Math.max(...levels, partial.amplitudeDb);
+    const series: uPlot.Series[] = [
+      { label: "Time", value: (_u, v) => (v == null ? "–" : `${v.toFixed(3)} s`) },
+      { label: "Envelope", stroke: chartColours.envelope, width: 1.25, value: (_u, v) => (v == null ? "–" : `${v.toFixed(1)} dBFS`) },
+      { label: `Fit, τ = ${fixed(partial.tauS, 3)} s`, stroke: chartColours.fit, width: 2, show: !two, value: (_u, v) => (v == null ? "–" : `${v.toFixed(1)} dBFS`) },
+      { label: "Noise floor", stroke: chartColours.noise, width: 1.25, dash: [6, 4], value: (_u, v) => (v == null ? "–" : `${v.toFixed(1)} dBFS`) },
+    ];
+    if (two) {
+      series.push({ label: `Early, τ = ${fixed(two.earlyTauS, 3)} s`, stroke: chartColours.early, width: 2, value: (_u, v) => (v == null ? "–" : `${v.toFixed(1)} dBFS`) });
+      series.push({ label: `Late, τ = ${fixed(two.lateTauS, 3)} s`, stroke: chartColours.late, width: 2, value: (_u, v) => (v == null ? "–" : `${v.toFixed(1)} dBFS`) });
+    }
+    return {
+      scales: { x: { time: false }, y: { range: [Math.floor(yMin / 10) * 10 - 5, Math.ceil(yMax / 10) * 10 + 5] } },
+      axes: [
+        { label: "Time from file start (s)", stroke: chartColours.axis, grid: { stroke: chartColours.grid }, ticks: { stroke: chartColours.grid } },
+        { label: "Level (dBFS)", stroke: chartColours.axis, grid: { stroke: chartColours.grid }, ticks: { stroke: chartColours.grid }, size: 56 },
+      ],
+      series,
+      legend: { live: true },
+      hooks: { drawAxes: [shade] },
+    };
+  }, [envelope, partial, two]);
+
+  const description = [
+    `Decay of ${label}: envelope from ${fixed(envelope.timeS[0] ?? 0, 2)} s to ${fixed(envelope.timeS[envelope.timeS.length - 1] ?? 0, 2)} s`,
+    `fitted from ${fixed(partial.fitStartS, 2)} s to ${fixed(partial.fitEndS, 2)} s with τ = ${fixed(partial.tauS, 3)} s`,
+    `noise floor ${fixed(envelope.noiseFloorDb, 1)} dBFS`,
+    two ? `two-stage decay: early τ ${fixed(two.earlyTauS, 3)} s, late τ ${fixed(two.lateTauS, 3)} s, knee at ${fixed(two.kneeS, 2)} s` : null,
+    partial.beatHz ? `beats at ${fixed(partial.beatHz, 2)} Hz` : null,
+  ]
+    .filter(Boolean)
+    .join("; ");
+
+  return (
+    <figure className="flex flex-col gap-1">
+      <UplotChart options={options} data={data} height={height} label={description} className="tl-chart tl-decay w-full" />
+      <figcaption className="text-caption text-ink-faint">
+        Shaded: the evaluation range, {fixed(partial.fitStartS, 2)}–{fixed(partial.fitEndS, 2)} s.
+        {two ? ` Two stages: the dotted line marks the knee at ${fixed(two.kneeS, 2)} s.` : ""}
+        {partial.beatHz
+          ? ` Beats at ${fixed(partial.beatHz, 2)} Hz (the envelope swells every ${fixed(1 / partial.beatHz, 2)} s): two close modes ring together${partial.modes?.length === 2 ? `, at ${fixed(partial.modes[0].frequencyHz, 2)} and ${fixed(partial.modes[1].frequencyHz, 2)} Hz` : ""}.`
+          : ""}
+        {partial.tauUnreliable ? " τ is unreliable here: the partial fell by less than 3 dB in the recording." : ""}
+      </figcaption>
+    </figure>
+  );
+}

@@ -1,0 +1,203 @@
+/**
+ * The recording as a waveform with playback, zoom and a time cursor (wavesurfer.js 8), the
+ * detected strike onsets marked, and an optional spectrogram below it. The WAV is fetched once as
+ * a Blob with the session cookie and decoded at its own sample rate, so the spectrogram reaches
+ * the upper partials (wavesurfer decodes at 8 kHz unless told otherwise).
+ */
+import { useEffect, useRef, useState } from "react";
+import WaveSurfer from "wavesurfer.js";
+import HoverPlugin from "wavesurfer.js/dist/plugins/hover.esm.js";
+import RegionsPlugin from "wavesurfer.js/dist/plugins/regions.esm.js";
+import SpectrogramPlugin from "wavesurfer.js/dist/plugins/spectrogram.esm.js";
+import TimelinePlugin from "wavesurfer.js/dist/plugins/timeline.esm.js";
+import { Alert } from "@/components/ui/alert";
+import { Button } from "@/components/ui/button";
+import { Spinner } from "@/components/ui/spinner";
+import { isApiError } from "@/lib/api-client";
+import { useStrikeAudio } from "../api/get-strike-audio";
+import { chartColours } from "../lib/colours";
+import { spectrogramColourMap } from "../lib/spectrogram-colours";
+
+const ZOOM_STEPS = [0, 50, 100, 200, 400, 800, 1600] as const;
+
+export function Waveform({
+  workshopId,
+  strikeId,
+  onsetsS,
+  sampleRate,
+  durationS,
+}: {
+  workshopId: string;
+  strikeId: string;
+  /** Detected strike onsets, s from the file start. */
+  onsetsS: number[];
+  /** The file's sample rate, Hz (decoding rate for the spectrogram); null when not known. */
+  sampleRate: number | null;
+  durationS: number | null;
+}) {
+  const audio = useStrikeAudio(workshopId, strikeId);
+  const waveRef = useRef<HTMLDivElement>(null);
+  const spectroRef = useRef<HTMLDivElement>(null);
+  const wsRef = useRef<WaveSurfer | null>(null);
+  const spectroPluginRef = useRef<SpectrogramPlugin | null>(null);
+  const [ready, setReady] = useState(false);
+  const [playing, setPlaying] = useState(false);
+  const [time, setTime] = useState(0);
+  const [duration, setDuration] = useState(durationS ?? 0);
+  const [zoomIndex, setZoomIndex] = useState(0);
+  const [showSpectrogram, setShowSpectrogram] = useState(true);
+  const [decodeError, setDecodeError] = useState<string | null>(null);
+
+  useEffect(() => {
+    const container = waveRef.current;
+    const blob = audio.data;
+    if (!container || !blob) return;
+    setReady(false);
+    setDecodeError(null);
+    const regions = RegionsPlugin.create();
+    const ws = WaveSurfer.create({
+      container,
+      height: 128,
+      waveColor: chartColours.wave,
+      progressColor: chartColours.waveProgress,
+      cursorColor: chartColours.cursor,
+      cursorWidth: 2,
+      normalize: false,
+      dragToSeek: true,
+      // Decode at the file's own rate (capped: the browser resamples above 96 kHz anyway).
+      sampleRate: sampleRate ? Math.min(sampleRate, 96_000) : 44_100,
+      plugins: [
+        regions,
+        TimelinePlugin.create({ height: 18, style: { fontSize: "12px", color: chartColours.axis } }),
+        HoverPlugin.create({
+          lineColor: chartColours.cursor,
+          lineWidth: 1,
+          labelBackground: chartColours.ink,
+          labelColor: "#fff",
+          labelSize: "12px",
+          formatTimeCallback: (s) => `${s.toFixed(3)} s`,
+        }),
+      ],
+    });
+    wsRef.current = ws;
+    const unsubs = [
+      ws.on("ready", (d) => {
+        setDuration(d);
+        setReady(true);
+        onsetsS.forEach((onset, i) => {
+          const label = document.createElement("span");
+          label.textContent = onsetsS.length > 1 ? `strike ${i + 1}` : "strike";
+          label.className = "tl-onset-label";
+          regions.addRegion({ start: onset, content: label, color: chartColours.onset, drag: false, resize: false });
+        });
+      }),
+      ws.on("timeupdate", (t) => setTime(t)),
+      ws.on("play", () => setPlaying(true)),
+      ws.on("pause", () => setPlaying(false)),
+      ws.on("finish", () => setPlaying(false)),
+      ws.on("error", (e) => setDecodeError(e instanceof Error ? e.message : String(e))),
+    ];
+    ws.loadBlob(blob).catch((e: unknown) => {
+      if (e instanceof DOMException && e.name === "AbortError") return;
+      setDecodeError(e instanceof Error ? e.message : String(e));
+    });
+    return () => {
+      unsubs.forEach((u) => u());
+      spectroPluginRef.current = null;
+      ws.destroy();
+      wsRef.current = null;
+    };
+  }, [audio.data, onsetsS, sampleRate]);
+
+  // The spectrogram is a plugin registered on demand, so hiding it also frees its canvases.
+  useEffect(() => {
+    const ws = wsRef.current;
+    const container = spectroRef.current;
+    if (!ws || !ready || !container) return;
+    if (showSpectrogram && !spectroPluginRef.current) {
+      const nyquist = (sampleRate ? Math.min(sampleRate, 96_000) : 44_100) / 2;
+      spectroPluginRef.current = ws.registerPlugin(
+        SpectrogramPlugin.create({
+          container,
+          height: 160,
+          labels: true,
+          labelsBackground: "rgba(255,253,249,0.85)",
+          labelsColor: chartColours.axis,
+          labelsHzColor: chartColours.axis,
+          fftSamples: 1024,
+          windowFunc: "hann",
+          scale: "linear",
+          frequencyMax: Math.min(nyquist, 12_000),
+          colorMap: spectrogramColourMap,
+        }),
+      );
+    } else if (!showSpectrogram && spectroPluginRef.current) {
+      spectroPluginRef.current.destroy();
+      spectroPluginRef.current = null;
+    }
+  }, [showSpectrogram, ready, sampleRate]);
+
+  useEffect(() => {
+    const ws = wsRef.current;
+    if (ws && ready) ws.zoom(ZOOM_STEPS[zoomIndex]);
+  }, [zoomIndex, ready]);
+
+  if (audio.isError) {
+    return (
+      <Alert tone="error" title="The recording could not be loaded">
+        {isApiError(audio.error) ? audio.error.message : "Check the connection and reload the page."}
+      </Alert>
+    );
+  }
+
+  const togglePlay = () => void wsRef.current?.playPause();
+
+  return (
+    <div className="flex flex-col gap-3">
+      <div className="flex flex-wrap items-center gap-2" role="toolbar" aria-label="Playback and zoom">
+        <Button onClick={togglePlay} disabled={!ready} aria-pressed={playing}>
+          {playing ? "Pause" : "Play"}
+        </Button>
+        <Button variant="secondary" onClick={() => wsRef.current?.stop()} disabled={!ready}>
+          Back to start
+        </Button>
+        <span className="mx-1 h-8 w-px bg-line" aria-hidden="true" />
+        <Button variant="secondary" onClick={() => setZoomIndex((z) => Math.max(0, z - 1))} disabled={!ready || zoomIndex === 0} aria-label="Zoom out">
+          −
+        </Button>
+        <span className="min-w-24 text-center text-caption text-ink-soft" aria-live="polite">
+          {zoomIndex === 0 ? "Whole recording" : `${ZOOM_STEPS[zoomIndex]} px/s`}
+        </span>
+        <Button variant="secondary" onClick={() => setZoomIndex((z) => Math.min(ZOOM_STEPS.length - 1, z + 1))} disabled={!ready || zoomIndex === ZOOM_STEPS.length - 1} aria-label="Zoom in">
+          +
+        </Button>
+        <span className="mx-1 h-8 w-px bg-line" aria-hidden="true" />
+        <Button variant="quiet" onClick={() => setShowSpectrogram((s) => !s)} aria-pressed={showSpectrogram} disabled={!ready}>
+          {showSpectrogram ? "Hide spectrogram" : "Show spectrogram"}
+        </Button>
+        <span className="ml-auto font-mono text-caption tabular-nums text-ink-soft" aria-label="Playback position">
+          {time.toFixed(3)} s / {duration.toFixed(3)} s
+        </span>
+      </div>
+      <div className="relative rounded-control border border-line bg-canvas px-1 pt-1">
+        {!ready && !decodeError ? (
+          <div className="absolute inset-0 z-10 flex items-center justify-center">
+            <Spinner label={audio.isPending ? "Loading the recording…" : "Drawing the waveform…"} />
+          </div>
+        ) : null}
+        <div ref={waveRef} data-testid="waveform" aria-label="Waveform of the recording; click to move the play position" />
+      </div>
+      {decodeError ? (
+        <Alert tone="error" title="The browser could not decode this recording">
+          {decodeError}. The stored file is unchanged; download it and open it in another player to check it.
+        </Alert>
+      ) : null}
+      <div ref={spectroRef} data-testid="spectrogram" className={showSpectrogram ? "rounded-control border border-line" : "hidden"} aria-label="Spectrogram: time across, frequency up, darker is louder" />
+      {onsetsS.length ? (
+        <p className="text-caption text-ink-faint">
+          Strike onsets marked at {onsetsS.map((s) => `${s.toFixed(3)} s`).join(", ")}.
+        </p>
+      ) : null}
+    </div>
+  );
+}

@@ -1,0 +1,67 @@
+/**
+ * One row per reported partial of a strike: its label (the spec's role, or "partial n"), its
+ * ratio to the fundamental and, when the spec gives a target, its deviation in cents. Used by the
+ * spectrum markers and the partials table so the two always name a partial the same way.
+ */
+import { cents } from "@shared/physics";
+import type { Partial } from "@shared/schemas/analysis";
+import type { RequirementResult } from "@shared/schemas/evaluation";
+
+export type PartialRow = {
+  index: number;
+  /** The spec's label, or "partial n" (1-based, in frequency order) when unmatched. */
+  label: string;
+  /** True when the label came from the spec. */
+  labelled: boolean;
+  isFundamental: boolean;
+  partial: Partial;
+  /** f / f₀ of this strike, or null when no fundamental was found. */
+  ratio: number | null;
+  /** The spec's target: a frequency (Hz) or a ratio to the fundamental. */
+  targetHz: number | null;
+  targetRatio: number | null;
+  /** Deviation of this strike's partial from the target, cents (not temperature-corrected). */
+  deviationCents: number | null;
+  toleranceCents: number | null;
+};
+
+export const partialFallbackLabel = (index: number) => `partial ${index + 1}`;
+
+/**
+ * @param labels StrikeDetail.labels: index in partials → spec label.
+ * @param requirements the unit evaluation's requirements (targets per label), when there is one.
+ */
+export function partialRows(partials: readonly Partial[], labels: Record<number, string>, requirements: readonly RequirementResult[] | null): PartialRow[] {
+  const byLabel = new Map((requirements ?? []).map((r) => [r.label, r] as const));
+  const fundamentalLabel = requirements?.find((r) => r.isFundamental)?.label;
+  // The fundamental is the partial the spec calls fundamental; without a spec match, the lowest partial.
+  let f0Index = -1;
+  for (const [key, label] of Object.entries(labels)) if (label === fundamentalLabel) f0Index = Number(key);
+  if (f0Index < 0 && partials.length && !fundamentalLabel) f0Index = 0;
+  const f0 = f0Index >= 0 ? partials[f0Index]?.frequencyHz ?? null : null;
+
+  return partials.map((partial, index) => {
+    const specLabel = labels[index];
+    const requirement = specLabel ? byLabel.get(specLabel) : undefined;
+    const isFundamental = index === f0Index;
+    const ratio = f0 ? partial.frequencyHz / f0 : null;
+    let deviationCents: number | null = null;
+    const targetRatio = requirement?.targetRatio ?? null;
+    // A ratio target is judged on the measured ratio (as the evaluation does); a frequency target on f.
+    const targetHz = requirement && targetRatio === null ? requirement.targetHz : null;
+    if (targetRatio !== null && ratio !== null && !isFundamental) deviationCents = cents(ratio, targetRatio);
+    else if (targetHz) deviationCents = cents(partial.frequencyHz, targetHz);
+    return {
+      index,
+      label: specLabel ?? partialFallbackLabel(index),
+      labelled: Boolean(specLabel),
+      isFundamental,
+      partial,
+      ratio,
+      targetHz,
+      targetRatio,
+      deviationCents,
+      toleranceCents: requirement?.toleranceCents ?? null,
+    };
+  });
+}

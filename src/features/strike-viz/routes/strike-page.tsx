@@ -1,0 +1,182 @@
+/**
+ * The strike page (/strikes/:strikeId): the sound and the curves its numbers came from —
+ * waveform with playback, spectrum with the partials marked, one decay plot per partial, the
+ * partials table and the warnings. Queued and analysing strikes poll until done; a failed strike
+ * shows its waveform and the reason; a strike without partials says so.
+ */
+import { useMemo, useState } from "react";
+import { useParams } from "react-router";
+import type { StrikeDetail } from "@shared/schemas/strike";
+import { supportLabels } from "@shared/schemas/spec";
+import { strikeStateLabels } from "@shared/schemas/strike";
+import { Alert } from "@/components/ui/alert";
+import { Badge, EmptyState, PageHeader, Panel } from "@/components/ui/panel";
+import { Spinner } from "@/components/ui/spinner";
+import { isApiError } from "@/lib/api-client";
+import { useMe } from "@/lib/auth";
+import { formatDateTime } from "@/lib/format";
+import { useStrike } from "../api/get-strike";
+import { useUnit } from "../api/get-unit";
+import { DecayChart } from "../components/decay-chart";
+import { PartialsTable } from "../components/partials-table";
+import { SpectrumChart } from "../components/spectrum-chart";
+import { WarningsList } from "../components/warnings-list";
+import { Waveform } from "../components/waveform";
+import { fixed, formatHz } from "../lib/format";
+import { partialRows } from "../lib/partial-rows";
+import "../strike-viz.css";
+
+export default function StrikePage() {
+  const { strikeId = "" } = useParams();
+  const me = useMe();
+  const workshopId = me.data?.activeWorkshop?.id ?? "";
+  const strike = useStrike(workshopId, strikeId);
+
+  if (strike.isPending) {
+    return (
+      <div className="py-16 text-center">
+        <Spinner label="Loading the strike…" />
+      </div>
+    );
+  }
+  if (strike.isError) {
+    const status = isApiError(strike.error) ? strike.error.status : 0;
+    return (
+      <Alert tone="error" title={status === 404 ? "There is no such strike in this workshop" : "The strike could not be loaded"}>
+        {isApiError(strike.error) ? strike.error.message : "Check the connection and reload the page."}
+      </Alert>
+    );
+  }
+  return <StrikeView workshopId={workshopId} strike={strike.data} />;
+}
+
+function StrikeView({ workshopId, strike }: { workshopId: string; strike: StrikeDetail }) {
+  const unit = useUnit(workshopId, strike.unit.id);
+  const result = strike.result;
+  const strikes = result?.strikes ?? [];
+  const [shown, setShown] = useState(0);
+  const current = strikes[shown] ?? strikes[0];
+  const onsets = useMemo(() => strikes.map((s) => s.onsetS), [strikes]);
+  // Labels describe result.strikes[0]; the other strikes of a file get "partial n" names.
+  const labels = shown === 0 ? strike.labels : {};
+  const rows = useMemo(
+    () => (current ? partialRows(current.partials, labels, unit.data?.evaluation?.requirements ?? null) : []),
+    [current, labels, unit.data],
+  );
+  const busy = strike.state === "queued" || strike.state === "analysing";
+
+  return (
+    <div className="tl-strike-page flex flex-col gap-6">
+      <PageHeader
+        title={`Strike of ${strike.unit.serial}`}
+        description={
+          <>
+            Batch {strike.unit.batchCode} · {strike.originalName} · uploaded {formatDateTime(strike.uploadedAt)}
+            {strike.uploadedBy ? ` by ${strike.uploadedBy.name}` : ""}
+          </>
+        }
+        actions={<Badge tone={strike.state === "done" ? "moss" : strike.state === "failed" ? "rust" : "steel"}>{strikeStateLabels[strike.state]}</Badge>}
+      />
+
+      <dl className="grid grid-cols-2 gap-x-6 gap-y-2 text-body sm:grid-cols-4" aria-label="Recording">
+        <Fact label="Sample rate" value={strike.sampleRate ? `${(strike.sampleRate / 1000).toLocaleString("en-GB")} kHz` : "–"} />
+        <Fact label="Duration" value={strike.durationS !== null ? `${fixed(strike.durationS, 2)} s` : "–"} />
+        <Fact label="Format" value={strike.bitsPerSample ? `${strike.bitsPerSample}-bit ${strike.encoding ?? ""}, ${strike.channels ?? "?"} ch` : "–"} />
+        <Fact label="Support · temperature" value={`${strike.support ? supportLabels[strike.support] : "support not given"} · ${strike.temperatureC !== null ? `${strike.temperatureC} °C` : "no temperature"}`} />
+      </dl>
+
+      {busy ? (
+        <Alert tone="info" title={strike.state === "queued" ? "Waiting for analysis" : "Analysing…"}>
+          <span className="inline-flex items-center gap-2">
+            <Spinner size="sm" /> This page updates by itself when the analysis is done; the charts appear then.
+          </span>
+        </Alert>
+      ) : null}
+      {strike.state === "failed" ? (
+        <Alert tone="error" title="This recording could not be analysed">
+          <p>{strike.failureReason ?? "The analysis gave no reason."}</p>
+          <p className="mt-1">Listen to it below. Record the unit again, and upload the new file; this one stays on record.</p>
+        </Alert>
+      ) : null}
+
+      <Panel aria-labelledby="waveform-heading">
+        <h2 id="waveform-heading" className="mb-3 text-title font-semibold">Recording</h2>
+        <Waveform workshopId={workshopId} strikeId={strike.id} onsetsS={onsets} sampleRate={strike.sampleRate} durationS={strike.durationS} />
+      </Panel>
+
+      {result ? <WarningsList warnings={result.warnings} /> : null}
+
+      {strike.state === "done" && result ? (
+        strikes.length === 0 ? (
+          <EmptyState title="No strike was found in this recording">
+            The file held sound, but no strike stood out of it. Strike the unit firmly near the microphone and upload a new recording.
+          </EmptyState>
+        ) : (
+          <>
+            {strikes.length > 1 ? (
+              <fieldset className="flex flex-wrap items-center gap-2">
+                <legend className="mb-1 text-caption font-semibold text-ink-soft">This file holds {strikes.length} strikes; show</legend>
+                {strikes.map((s, i) => (
+                  <label key={i} className={`cursor-pointer rounded-control border px-3 py-2 text-caption ${i === shown ? "border-steel-600 bg-steel-50 text-steel-800" : "border-line-strong"}`}>
+                    <input type="radio" className="sr-only" name="strike" checked={i === shown} onChange={() => setShown(i)} />
+                    Strike {i + 1} at {fixed(s.onsetS, 2)} s{i === 0 ? " (evaluated)" : ""}
+                  </label>
+                ))}
+              </fieldset>
+            ) : null}
+            {current.partials.length === 0 ? (
+              <EmptyState title="No partials stood clear of the noise">
+                The analysis found the strike at {fixed(current.onsetS, 2)} s but no partial above the noise floor ({fixed(current.noiseFloorDb, 1)} dBFS).
+                Strike harder or record closer, and check the unit rings freely on its support.
+              </EmptyState>
+            ) : (
+              <>
+                <Panel aria-labelledby="spectrum-heading">
+                  <h2 id="spectrum-heading" className="mb-1 text-title font-semibold">Spectrum</h2>
+                  <p className="mb-3 text-caption text-ink-faint">Magnitude of the analysed segment after the strike at {fixed(current.onsetS, 2)} s. Red lines: the reported partials.</p>
+                  {current.plot ? (
+                    <SpectrumChart spectrum={current.plot.spectrum} humHz={current.plot.humHz} rows={rows} />
+                  ) : (
+                    <p className="text-ink-soft">This strike was analysed before plot series were stored; analyse it again to see its spectrum.</p>
+                  )}
+                </Panel>
+
+                <Panel aria-labelledby="partials-heading">
+                  <h2 id="partials-heading" className="mb-3 text-title font-semibold">Partials</h2>
+                  <PartialsTable rows={rows} />
+                </Panel>
+
+                <Panel aria-labelledby="decay-heading">
+                  <h2 id="decay-heading" className="mb-1 text-title font-semibold">Decay of each partial</h2>
+                  <p className="mb-4 text-caption text-ink-faint">Envelope level against time. A straight fit line in dB is an exponential decay; the slope gives τ.</p>
+                  <div className="grid gap-6 lg:grid-cols-2">
+                    {rows.map((row) => {
+                      const envelope = current.plot?.envelopes[row.index];
+                      return (
+                        <section key={row.index} aria-label={`Decay of ${row.label}`} className="tl-decay-item min-w-0">
+                          <h3 className="mb-1 text-body font-semibold">
+                            {row.label} <span className="font-normal text-ink-soft">· {formatHz(row.partial.frequencyHz)} · T60 {fixed(row.partial.t60S, 2)} s</span>
+                          </h3>
+                          {envelope ? <DecayChart partial={row.partial} envelope={envelope} label={row.label} /> : <p className="text-ink-soft">No envelope stored for this partial.</p>}
+                        </section>
+                      );
+                    })}
+                  </div>
+                </Panel>
+              </>
+            )}
+          </>
+        )
+      ) : null}
+    </div>
+  );
+}
+
+function Fact({ label, value }: { label: string; value: string }) {
+  return (
+    <div>
+      <dt className="text-caption text-ink-faint">{label}</dt>
+      <dd className="font-medium">{value}</dd>
+    </div>
+  );
+}
