@@ -156,7 +156,6 @@ export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } =
       const neighbourHz = others.length ? Math.min(...others.map((f) => (f < lo ? lo - f : f > hi ? f - hi : 0))) : Infinity;
       const r = refinePartial({ X, M, sampleRate: fs, segStart: analysisStart, segLen, onsetSample: onset, fitStartSample: fitStart, peaksHz: group, neighbourHz });
       if (!r) continue;
-      if (process.env.TINELOG_DEBUG_LM) console.error("refined", JSON.stringify(r.partial), r.alpha, r.alphaUncertainty);
       const p = r.partial;
       if (!Number.isFinite(p.frequencyHz) || !Number.isFinite(p.tauS) || !Number.isFinite(p.amplitudeDb)) continue;
       if ((p.snrDb ?? 0) < 6) continue;

@@ -362,7 +362,6 @@ export function refine(y: Float64Array, dt: number, start: Pole[], maxIter = 60)
   const { A } = normalEquations(y, dt, th, p);
   const modes: Mode[] = [];
   for (let k = 0; k < p; k++) modes.push({ re: th[4 * k], im: th[4 * k + 1], alpha: th[4 * k + 2], omega: th[4 * k + 3] });
-  if (process.env.TINELOG_DEBUG_LM) console.error(`LM p=${p} n=${n} iterations=${it}`);
   return { modes, ssr: P.ssr, n, sigma2: P.ssr / Math.max(1, n - 2 * p), inverseNormal: inverse(A, 4 * p), iterations: it };
 }
 
@@ -424,7 +423,6 @@ export function residualLine(y: Float64Array, dt: number, one: DampedFit): numbe
   }
   const mean = sum / count;
   L = Math.max(L, 1);
-  if (process.env.TINELOG_DEBUG_LM) console.error(`residual n=${n} dt=${dt.toExponential(3)} peak/mean=${(best / mean).toFixed(1)} thr=${(Math.log(count) + 4).toFixed(1)} at=${at} L=${L}`);
   if (!(best > (Math.log(count) + 4) * mean)) return null;
   const cycles = at <= L / 2 ? at : at - L;
   return (2 * Math.PI * cycles) / (L * dt);

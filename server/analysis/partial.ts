@@ -153,7 +153,6 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
     const s = noiseWhite(f) / 2;
     return f.inverseNormal ? f.inverseNormal.map((v) => v * s) : null;
   };
-  if (process.env.TINELOG_DEBUG_LM && two) console.error("IC", informationCriterion(one), informationCriterion(two), validTwo(two, cov(two), band, n, y), JSON.stringify(two.modes));
   let chosen: DampedFit = one;
   let kind: "single" | "doublet" | "twoStage" = "single";
   if (two && informationCriterion(two) < informationCriterion(one) && validTwo(two, cov(two), band, n, y)) {

@@ -32,6 +32,8 @@ export interface WavLayout extends WavHeader {
 export const MAX_DURATION_S = 600;
 /** Largest data chunk accepted, bytes (1 GiB). */
 export const MAX_DATA_BYTES = 1 << 30;
+/** Most frames accepted (2^24 ≈ 5.8 min at 48 kHz): bounds the decoder's memory (~130 MB a buffer). */
+export const MAX_FRAMES = 1 << 24;
 const MIN_SAMPLE_RATE = 2000;
 const MAX_SAMPLE_RATE = 768000;
 const MAX_CHANNELS = 8;
@@ -194,8 +196,9 @@ function finishLayout(
   if (dataBytes === 0) {
     throw new AnalysisInputError("no_audio", "The WAV file holds no audio (its data chunk is empty). Record the strike again and check that the recording ran.");
   }
-  if (dataBytes > MAX_DATA_BYTES || dataBytes / blockAlign / fmt.sampleRate > MAX_DURATION_S) {
-    throw new AnalysisInputError("too_large", `The recording is too long (over ${MAX_DURATION_S / 60} minutes or 1 GiB of audio). Trim it to the strikes (a few seconds each) and upload again.`);
+  if (dataBytes > MAX_DATA_BYTES || dataBytes / blockAlign / fmt.sampleRate > MAX_DURATION_S || dataBytes / blockAlign > MAX_FRAMES) {
+    const minutes = Math.min(MAX_DURATION_S, MAX_FRAMES / fmt.sampleRate) / 60;
+    throw new AnalysisInputError("too_large", `The recording is too long (over ${minutes.toFixed(1)} minutes at ${fmt.sampleRate} Hz, or over 1 GiB of audio). Trim it to the strikes (a few seconds each) and upload again.`);
   }
   if (dataOffset + dataBytes > total) {
     const have = Math.max(0, total - dataOffset);
