@@ -9,8 +9,17 @@ import { paths } from "@/config/paths";
 import { ApiError } from "@/lib/api-client";
 import { PageLoading } from "./page-loading";
 import { AppRoot, appLoader } from "./routes/app/root";
-import { BatchesRoute, SpecificationsRoute, batchesLoader, specificationsLoader } from "./routes/app/coming-later";
-import { DashboardRoute } from "./routes/app/dashboard";
+import { BatchLedgerRoute, batchLedgerLoader } from "./routes/app/batches/batch-ledger";
+import { BatchNewRoute, batchNewLoader } from "./routes/app/batches/batch-new";
+import { BatchesListRoute, batchesListLoader } from "./routes/app/batches/batches-list";
+import { DashboardRoute, dashboardLoader } from "./routes/app/dashboard";
+import { SettingsRoute, settingsLoader } from "./routes/app/settings";
+import { SpecDetailRoute, specDetailLoader } from "./routes/app/specs/spec-detail";
+import { SpecEditRoute, specEditLoader } from "./routes/app/specs/spec-edit";
+import { SpecNewRoute, specNewLoader } from "./routes/app/specs/spec-new";
+import { SpecsListRoute, specsListLoader } from "./routes/app/specs/specs-list";
+import { StrikeRoute, strikeLoader } from "./routes/app/strike";
+import { UnitRoute, unitLoader } from "./routes/app/units/unit";
 import { MembersRoute, membersLoader } from "./routes/app/members";
 import { OutboxMessageRoute, outboxMessageLoader } from "./routes/app/outbox-message";
 import { OutboxRoute, outboxLoader } from "./routes/app/outbox";
@@ -19,6 +28,7 @@ import { SignInRoute, signInLoader } from "./routes/auth/sign-in";
 import { SignUpRoute, signUpLoader } from "./routes/auth/sign-up";
 import { InvitationRoute, invitationLoader } from "./routes/public/invitation";
 import { PublicLayout } from "./routes/public/public-layout";
+import { VerifyRoute, verifyLoader } from "./routes/public/verify";
 
 export function createRoutes(queryClient: QueryClient): RouteObject[] {
   const errorElement = <RouteError />;
@@ -34,7 +44,7 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
         { path: paths.auth.signUp.path, loader: signUpLoader(queryClient), element: <SignUpRoute />, errorElement },
         { path: paths.auth.createWorkshop.path, loader: createWorkshopLoader(queryClient), element: <CreateWorkshopRoute />, errorElement },
         {
-          // No sign-in needed below here. The certificate verification page (/verify/:code) joins this group.
+          // No sign-in needed below here: the invitation landing and certificate verification.
           element: <PublicLayout />,
           errorElement,
           children: [
@@ -43,6 +53,12 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
               loader: invitationLoader(queryClient),
               element: <InvitationRoute />,
               errorElement: <RouteError notFoundHint="Check that the whole link from your invitation e-mail was opened, or ask the workshop owner to send a new invitation." />,
+            },
+            {
+              path: paths.public.verify.path,
+              loader: verifyLoader(queryClient),
+              element: <VerifyRoute />,
+              errorElement: <RouteError notFoundHint="Check that the whole verification link (or the QR code on the certificate) was used. If it was, the certificate is not genuine: ask the workshop that issued it." />,
             },
           ],
         },
@@ -56,9 +72,16 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
             {
               errorElement: <RouteError embedded />,
               children: [
-                { index: true, element: <DashboardRoute /> },
-                { path: paths.app.batches.path, loader: batchesLoader(queryClient), element: <BatchesRoute /> },
-                { path: paths.app.specifications.path, loader: specificationsLoader(queryClient), element: <SpecificationsRoute /> },
+                { index: true, loader: dashboardLoader(queryClient), element: <DashboardRoute /> },
+                { path: paths.app.batches.path, loader: batchesListLoader(queryClient), element: <BatchesListRoute /> },
+                { path: paths.app.newBatch.path, loader: batchNewLoader(queryClient), element: <BatchNewRoute /> },
+                { path: paths.app.batch.path, loader: batchLedgerLoader(queryClient), element: <BatchLedgerRoute /> },
+                { path: paths.app.unit.path, loader: unitLoader(queryClient), element: <UnitRoute /> },
+                { path: paths.app.specifications.path, loader: specsListLoader(queryClient), element: <SpecsListRoute /> },
+                { path: paths.app.newSpecification.path, loader: specNewLoader(queryClient), element: <SpecNewRoute /> },
+                { path: paths.app.specification.path, loader: specDetailLoader(queryClient), element: <SpecDetailRoute /> },
+                { path: paths.app.editSpecification.path, loader: specEditLoader(queryClient), element: <SpecEditRoute /> },
+                { path: paths.app.settings.path, loader: settingsLoader(queryClient), element: <SettingsRoute /> },
                 { path: paths.app.members.path, loader: membersLoader(queryClient), element: <MembersRoute /> },
                 { path: paths.app.outbox.path, loader: outboxLoader(queryClient), element: <OutboxRoute /> },
                 { path: paths.app.outboxMessage.path, loader: outboxMessageLoader(queryClient), element: <OutboxMessageRoute /> },
@@ -66,6 +89,14 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
               ],
             },
           ],
+        },
+        {
+          // The strike page lives at /strikes/:strikeId but inside the same signed-in shell.
+          path: paths.strike.path,
+          loader: appLoader(queryClient),
+          element: <AppRoot />,
+          errorElement,
+          children: [{ errorElement: <RouteError embedded />, children: [{ index: true, loader: strikeLoader(queryClient), element: <StrikeRoute /> }] }],
         },
         { path: "*", loader: notFoundLoader },
       ],

@@ -97,6 +97,9 @@ export const api = {
   /** For endpoints that answer with a document (an e-mail's HTML part), not JSON. */
   getText: async (url: string, options: RequestOptions = {}) => (await send("GET", url, undefined, options, "text/html, text/plain")).text(),
   post: async <T>(url: string, body: unknown = {}, options: RequestOptions = {}) => json<T>(await send("POST", url, body, options, "application/json")),
+  /** For endpoints that answer a JSON request with a file (a certificate preview PDF). */
+  postForBlob: async (url: string, body: unknown = {}, accept = "application/pdf", options: RequestOptions = {}) => (await send("POST", url, body, options, `${accept}, application/json`)).blob(),
+  put: async <T>(url: string, body: unknown = {}, options: RequestOptions = {}) => json<T>(await send("PUT", url, body, options, "application/json")),
   patch: async <T>(url: string, body: unknown = {}, options: RequestOptions = {}) => json<T>(await send("PATCH", url, body, options, "application/json")),
   delete: async <T>(url: string, options: RequestOptions = {}) => json<T>(await send("DELETE", url, undefined, options, "application/json")),
 };

@@ -12,3 +12,39 @@ export function formatBytes(bytes: number): string {
   if (bytes < 1024 * 1024) return `${(bytes / 1024).toFixed(1)} KiB`;
   return `${(bytes / (1024 * 1024)).toFixed(1)} MiB`;
 }
+
+const dateOnly = new Intl.DateTimeFormat(undefined, { dateStyle: "medium" });
+
+export function formatDate(value: string | Date): string {
+  const date = value instanceof Date ? value : new Date(value);
+  return Number.isNaN(date.getTime()) ? String(value) : dateOnly.format(date);
+}
+
+const dash = "—";
+
+/** A number with fixed decimals, or a dash when there is none (not measured, not found). */
+export function formatNumber(value: number | null | undefined, decimals = 2): string {
+  return value == null || !Number.isFinite(value) ? dash : value.toFixed(decimals);
+}
+
+/** Frequency in Hz: three decimals below 1 kHz, two above (enough to see a cent at 440 Hz: 0.25 Hz). */
+export function formatHz(value: number | null | undefined): string {
+  if (value == null || !Number.isFinite(value)) return dash;
+  return `${value.toFixed(value < 1000 ? 3 : 2)} Hz`;
+}
+
+/** Cents always carry their sign, with a true minus sign (U+2212), so "+3.1" and "−9.4" read at a glance. */
+export function formatCents(value: number | null | undefined, decimals = 1): string {
+  if (value == null || !Number.isFinite(value)) return dash;
+  const rounded = Number(value.toFixed(decimals));
+  const sign = rounded > 0 ? "+" : rounded < 0 ? "\u2212" : "±";
+  return `${sign}${Math.abs(rounded).toFixed(decimals)} ¢`;
+}
+
+export function formatSeconds(value: number | null | undefined, decimals = 1): string {
+  return value == null || !Number.isFinite(value) ? dash : `${value.toFixed(decimals)} s`;
+}
+
+export function formatPercent(part: number, whole: number): string {
+  return whole > 0 ? `${Math.round((part / whole) * 100)} %` : "0 %";
+}

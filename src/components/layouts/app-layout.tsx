@@ -18,12 +18,12 @@ type Props = {
  */
 export function AppLayout({ nav, switcher, account, children }: Props) {
   return (
-    <div className="min-h-dvh bg-canvas md:grid md:grid-cols-[var(--spacing-rail)_1fr]">
+    <div className="app-shell min-h-dvh bg-canvas md:grid md:grid-cols-[var(--spacing-rail)_1fr]">
       <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-10 focus:rounded-control focus:bg-surface focus:px-4 focus:py-2">
         Skip to content
       </a>
       {/* The column carries the colour and the border, so they run the full height of a long page. */}
-      <div className="border-b border-line bg-surface md:border-b-0 md:border-r">
+      <div className="app-rail border-b border-line bg-surface md:border-b-0 md:border-r">
       <aside className="md:sticky md:top-0 md:flex md:h-dvh md:flex-col">
         <div className="flex items-center justify-between gap-4 px-gutter pt-4 md:block">
           <Wordmark />

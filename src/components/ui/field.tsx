@@ -1,5 +1,5 @@
 import clsx from "clsx";
-import { forwardRef, useId, type InputHTMLAttributes, type ReactNode, type SelectHTMLAttributes } from "react";
+import { forwardRef, useId, type InputHTMLAttributes, type ReactNode, type SelectHTMLAttributes, type TextareaHTMLAttributes } from "react";
 
 const control =
   "block w-full min-h-touch rounded-control border bg-surface px-3 text-body text-ink placeholder:text-ink-faint disabled:bg-sunken disabled:text-ink-soft";
@@ -67,5 +67,41 @@ export const SelectField = forwardRef<HTMLSelectElement, SelectFieldProps>(funct
         {children}
       </select>
     </FieldShell>
+  );
+});
+
+type TextAreaFieldProps = TextareaHTMLAttributes<HTMLTextAreaElement> & { label: string; hint?: ReactNode; error?: string };
+
+export const TextAreaField = forwardRef<HTMLTextAreaElement, TextAreaFieldProps>(function TextAreaField({ label, hint, error, id, className, rows = 3, ...rest }, ref) {
+  const generated = useId();
+  const areaId = id ?? generated;
+  return (
+    <FieldShell id={areaId} label={label} hint={hint} error={error}>
+      <textarea
+        ref={ref}
+        id={areaId}
+        rows={rows}
+        aria-invalid={error ? true : undefined}
+        aria-describedby={error ? `${areaId}-error` : hint ? `${areaId}-hint` : undefined}
+        className={clsx("block w-full rounded-control border bg-surface px-3 py-2 text-body text-ink placeholder:text-ink-faint", error ? "border-rust-600" : "border-line-strong", className)}
+        {...rest}
+      />
+    </FieldShell>
+  );
+});
+
+type CheckboxFieldProps = Omit<InputHTMLAttributes<HTMLInputElement>, "type"> & { label: string; error?: string };
+
+export const CheckboxField = forwardRef<HTMLInputElement, CheckboxFieldProps>(function CheckboxField({ label, error, id, ...rest }, ref) {
+  const generated = useId();
+  const boxId = id ?? generated;
+  return (
+    <div>
+      <label htmlFor={boxId} className="inline-flex min-h-9 items-center gap-2 text-body">
+        <input ref={ref} id={boxId} type="checkbox" className="size-5 accent-steel-600" aria-invalid={error ? true : undefined} {...rest} />
+        {label}
+      </label>
+      {error ? <p className="text-caption font-medium text-rust-700">{error}</p> : null}
+    </div>
   );
 });

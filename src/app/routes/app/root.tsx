@@ -15,13 +15,14 @@ export const appLoader = (queryClient: QueryClient) => async ({ request }: Loade
   return null;
 };
 
-/** Only what the role may use (shared/permissions.ts); later screens say when they arrive. */
+/** Only what the role may use (shared/permissions.ts). */
 function navFor(role: RoleName): NavItem[] {
   const items: NavItem[] = [{ to: paths.app.dashboard.getHref(), label: "Dashboard", end: true }];
-  if (can(role, "batch", "read")) items.push({ to: paths.app.batches.getHref(), label: "Batches", note: "soon" });
-  if (can(role, "spec", "read")) items.push({ to: paths.app.specifications.getHref(), label: "Specifications", note: "soon" });
+  if (can(role, "batch", "read")) items.push({ to: paths.app.batches.getHref(), label: "Batches" });
+  if (can(role, "spec", "read")) items.push({ to: paths.app.specifications.getHref(), label: "Specifications" });
   if (can(role, "member", "create")) items.push({ to: paths.app.members.getHref(), label: "Members" });
   if (can(role, "mail", "read")) items.push({ to: paths.app.outbox.getHref(), label: "Outbox" });
+  if (can(role, "workshop", "update")) items.push({ to: paths.app.settings.getHref(), label: "Settings" });
   return items;
 }
 

@@ -1,0 +1,153 @@
+/**
+ * The batch ledger: one row per unit with its latest evaluation (TanStack Table for sorting and
+ * filtering). The filter is the QA view: units out of tolerance, or every unit still open.
+ */
+import { createColumnHelper, flexRender, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
+import clsx from "clsx";
+import { useMemo, useState } from "react";
+import { Link } from "react-router";
+import type { LedgerRow } from "@shared/schemas/batch";
+import { EmptyState } from "@/components/ui/panel";
+import { DispositionBadge, VerdictBadge } from "@/components/ui/status-badges";
+import { formatCents, formatNumber } from "@/lib/format";
+
+export type LedgerFilter = "all" | "out_of_tolerance" | "open";
+const filterLabels: Record<LedgerFilter, string> = { all: "All units", out_of_tolerance: "Out of tolerance", open: "Open" };
+
+const column = createColumnHelper<LedgerRow>();
+const verdictOrder = { out_of_tolerance: 0, inconclusive: 1, within_tolerance: 2 } as const;
+
+type Props = { rows: LedgerRow[]; unitHref: (id: string) => string; toleranceCents: number | null };
+
+export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
+  const [filter, setFilter] = useState<LedgerFilter>("all");
+  const [sorting, setSorting] = useState<SortingState>([]);
+
+  const columns = useMemo(
+    () => [
+      column.accessor("serial", {
+        header: "Serial",
+        cell: (info) => (
+          <Link to={unitHref(info.row.original.id)} className="font-semibold text-steel-700 underline underline-offset-2">
+            {info.getValue()}
+          </Link>
+        ),
+      }),
+      column.accessor("fundamentalHz", { header: "Fundamental (Hz)", cell: (info) => formatNumber(info.getValue(), 3), meta: { numeric: true } }),
+      column.accessor("deviationCents", {
+        header: "Deviation (cents)",
+        meta: { numeric: true },
+        cell: (info) => {
+          const value = info.getValue();
+          const outside = value != null && toleranceCents != null && Math.abs(value) > toleranceCents;
+          return <span className={outside ? "font-semibold text-rust-700" : undefined}>{formatCents(value)}</span>;
+        },
+      }),
+      column.accessor("overtoneRatio", { header: "Overtone ratio", cell: (info) => formatNumber(info.getValue(), 3), meta: { numeric: true } }),
+      column.accessor("t60S", { header: "T60 (s)", cell: (info) => formatNumber(info.getValue(), 1), meta: { numeric: true } }),
+      column.accessor("q", { header: "Q", cell: (info) => formatNumber(info.getValue(), 0), meta: { numeric: true } }),
+      column.accessor((row) => (row.verdict ? verdictOrder[row.verdict] : 3), {
+        id: "verdict",
+        header: "Verdict",
+        cell: (info) => <VerdictBadge verdict={info.row.original.verdict} />,
+      }),
+      column.accessor((row) => row.disposition?.decision ?? "", {
+        id: "disposition",
+        header: "Disposition",
+        cell: (info) => {
+          const d = info.row.original.disposition;
+          if (d) return <DispositionBadge decision={d.decision} />;
+          return info.row.original.open && info.row.original.verdict && info.row.original.verdict !== "within_tolerance" ? <span className="text-caption text-ochre-600">Awaiting decision</span> : <span className="text-ink-faint">—</span>;
+        },
+      }),
+      column.accessor("strikes", {
+        header: "Strikes",
+        meta: { numeric: true },
+        cell: (info) => {
+          const pending = info.row.original.pendingStrikes;
+          return (
+            <span>
+              {info.getValue()}
+              {pending > 0 ? <span className="ml-1 text-caption text-steel-700">({pending} analysing)</span> : null}
+            </span>
+          );
+        },
+      }),
+    ],
+    [unitHref, toleranceCents],
+  );
+
+  const data = useMemo(
+    () => (filter === "all" ? rows : rows.filter((row) => (filter === "open" ? row.open : row.verdict === "out_of_tolerance"))),
+    [rows, filter],
+  );
+  const table = useReactTable({ data, columns, state: { sorting }, onSortingChange: setSorting, getCoreRowModel: getCoreRowModel(), getSortedRowModel: getSortedRowModel(), getRowId: (row) => row.id });
+  const counts: Record<LedgerFilter, number> = {
+    all: rows.length,
+    out_of_tolerance: rows.filter((r) => r.verdict === "out_of_tolerance").length,
+    open: rows.filter((r) => r.open).length,
+  };
+
+  return (
+    <div className="flex flex-col gap-3">
+      <div role="group" aria-label="Show" className="no-print inline-flex flex-wrap self-start rounded-control border border-line-strong p-0.5">
+        {(Object.keys(filterLabels) as LedgerFilter[]).map((option) => (
+          <button
+            key={option}
+            type="button"
+            aria-pressed={filter === option}
+            onClick={() => setFilter(option)}
+            className={clsx("min-h-9 rounded-[0.4rem] px-3 text-caption font-medium", filter === option ? "bg-steel-600 text-white" : "text-ink-soft hover:bg-sunken")}
+          >
+            {filterLabels[option]} ({counts[option]})
+          </button>
+        ))}
+      </div>
+      {data.length === 0 ? (
+        <EmptyState title={rows.length === 0 ? "No units in this batch yet" : `No units are ${filter === "open" ? "open" : "out of tolerance"}`}>
+          {rows.length === 0 ? "Add units by a list of serials or a serial range below." : "Choose “All units” to see the whole batch."}
+        </EmptyState>
+      ) : (
+        <div className="ledger-scroll overflow-x-auto">
+          <table className="ledger-table w-full text-left">
+            <caption className="sr-only">Units of the batch</caption>
+            <thead className="border-b border-line-strong text-caption text-ink-soft">
+              {table.getHeaderGroups().map((group) => (
+                <tr key={group.id}>
+                  {group.headers.map((header) => {
+                    const numeric = (header.column.columnDef.meta as { numeric?: boolean } | undefined)?.numeric;
+                    const sorted = header.column.getIsSorted();
+                    return (
+                      <th key={header.id} scope="col" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : "none"} className={clsx("py-2 pr-3 font-semibold", numeric && "text-right")}>
+                        <button type="button" onClick={header.column.getToggleSortingHandler()} className="inline-flex items-center gap-1 hover:text-ink">
+                          {flexRender(header.column.columnDef.header, header.getContext())}
+                          <span aria-hidden="true" className="no-print text-ink-faint">
+                            {sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}
+                          </span>
+                        </button>
+                      </th>
+                    );
+                  })}
+                </tr>
+              ))}
+            </thead>
+            <tbody className="divide-y divide-line">
+              {table.getRowModel().rows.map((row) => (
+                <tr key={row.id} className={clsx(row.original.verdict === "out_of_tolerance" && "bg-rust-50/60")}>
+                  {row.getVisibleCells().map((cell) => {
+                    const numeric = (cell.column.columnDef.meta as { numeric?: boolean } | undefined)?.numeric;
+                    return (
+                      <td key={cell.id} className={clsx("py-2 pr-3 align-middle", numeric && "text-right tabular-nums")}>
+                        {flexRender(cell.column.columnDef.cell, cell.getContext())}
+                      </td>
+                    );
+                  })}
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      )}
+    </div>
+  );
+}

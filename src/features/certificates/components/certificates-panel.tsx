@@ -1,0 +1,233 @@
+/**
+ * Certificates of a unit (issue 6): preview, issue, amend and re-send, with their state.
+ * Issuing is for qa and owner once the batch is released; everyone in the workshop sees the list.
+ */
+import { zodResolver } from "@hookform/resolvers/zod";
+import { useEffect, useState } from "react";
+import { useForm } from "react-hook-form";
+import { issueCertificateSchema, type IssueCertificateInput } from "@shared/schemas/certificate";
+import { verdictLabels } from "@shared/schemas/evaluation";
+import { Alert } from "@/components/ui/alert";
+import { Button } from "@/components/ui/button";
+import { InputField, TextAreaField } from "@/components/ui/field";
+import { Badge, EmptyState } from "@/components/ui/panel";
+import { Spinner } from "@/components/ui/spinner";
+import { isApiError } from "@/lib/api-client";
+import { applyServerErrors } from "@/lib/form-errors";
+import { formatDateTime } from "@/lib/format";
+import { certificatePdfHref, useCertificates, type CertificateListItem } from "../api/get-certificates";
+import { useIssueCertificate } from "../api/issue-certificate";
+import { usePreviewCertificate } from "../api/preview-certificate";
+import { useResendCertificate } from "../api/resend-certificate";
+
+type Props = {
+  workshopId: string;
+  unitId: string;
+  customer: { name: string | null; email: string | null };
+  canIssue: boolean;
+  /** Why issuing is not possible yet (batch not released, no evaluation), or null when it is. */
+  blockedReason: string | null;
+  settingsHref?: string;
+};
+
+export function CertificatesPanel({ workshopId, unitId, customer, canIssue, blockedReason, settingsHref }: Props) {
+  const certificates = useCertificates(workshopId, unitId);
+  const [amending, setAmending] = useState<string | null>(null);
+  const current = certificates.data?.filter((c) => c.state === "current") ?? [];
+
+  return (
+    <div className="flex flex-col gap-5">
+      {canIssue ? (
+        blockedReason ? (
+          <Alert tone="info">{blockedReason}</Alert>
+        ) : amending ? (
+          <IssueForm
+            key={`amend-${amending}`}
+            workshopId={workshopId}
+            unitId={unitId}
+            customer={customer}
+            amendsNumber={amending}
+            onDone={() => setAmending(null)}
+            settingsHref={settingsHref}
+          />
+        ) : (
+          <IssueForm key="issue" workshopId={workshopId} unitId={unitId} customer={customer} settingsHref={settingsHref} />
+        )
+      ) : null}
+
+      {certificates.isPending ? (
+        <Spinner label="Loading certificates…" />
+      ) : certificates.isError ? (
+        <Alert tone="error">{certificates.error.message}</Alert>
+      ) : certificates.data.length === 0 ? (
+        <EmptyState title="No certificates for this unit">
+          {canIssue ? "Once the batch is released, issue a certificate here: it is e-mailed to the customer as a PDF with a verification link." : "A quality member issues certificates once the batch is released."}
+        </EmptyState>
+      ) : (
+        <ul aria-label="Certificates" className="divide-y divide-line rounded-control border border-line">
+          {certificates.data.map((c) => (
+            <CertificateRow
+              key={c.id}
+              workshopId={workshopId}
+              unitId={unitId}
+              certificate={c}
+              canIssue={canIssue}
+              onAmend={current.some((x) => x.number === c.number) && !blockedReason ? () => setAmending(c.number) : undefined}
+            />
+          ))}
+        </ul>
+      )}
+    </div>
+  );
+}
+
+function IssueForm({
+  workshopId,
+  unitId,
+  customer,
+  amendsNumber,
+  onDone,
+  settingsHref,
+}: {
+  workshopId: string;
+  unitId: string;
+  customer: { name: string | null; email: string | null };
+  amendsNumber?: string;
+  onDone?: () => void;
+  settingsHref?: string;
+}) {
+  const issue = useIssueCertificate(workshopId, unitId);
+  const preview = usePreviewCertificate(unitId);
+  const [formError, setFormError] = useState<string | null>(null);
+  const [issued, setIssued] = useState<string | null>(null);
+  const [previewUrl, setPreviewUrl] = useState<string | null>(null);
+  const form = useForm<IssueCertificateInput>({
+    resolver: zodResolver(issueCertificateSchema),
+    defaultValues: { recipientEmail: customer.email ?? "", recipientName: customer.name ?? undefined, amendsNumber, amendReason: amendsNumber ? "" : undefined },
+  });
+  const { errors } = form.formState;
+
+  // A blob URL holds the PDF in memory until revoked: free the old one whenever it is replaced.
+  useEffect(() => () => void (previewUrl && URL.revokeObjectURL(previewUrl)), [previewUrl]);
+
+  const fail = (error: unknown) => {
+    const message = applyServerErrors(error, form.setError, ["recipientEmail", "recipientName", "amendReason"]);
+    const needsProfile = isApiError(error) && /profile|address|sending|settings/i.test(error.message);
+    setFormError(message ? (needsProfile && settingsHref ? `${message} (Workshop settings: ${settingsHref})` : message) : null);
+  };
+
+  const clean = (values: IssueCertificateInput): IssueCertificateInput => ({
+    recipientEmail: values.recipientEmail,
+    recipientName: values.recipientName?.trim() ? values.recipientName.trim() : undefined,
+    ...(amendsNumber ? { amendsNumber, amendReason: values.amendReason } : {}),
+  });
+
+  const onPreview = form.handleSubmit(async (values) => {
+    setFormError(null);
+    try {
+      const blob = await preview.mutateAsync(clean(values));
+      setPreviewUrl(URL.createObjectURL(blob));
+    } catch (error) {
+      fail(error);
+    }
+  });
+
+  const onIssue = form.handleSubmit(async (values) => {
+    setFormError(null);
+    try {
+      const result = await issue.mutateAsync(clean(values));
+      setIssued(result.number);
+      setPreviewUrl(null);
+      onDone?.();
+    } catch (error) {
+      fail(error);
+    }
+  });
+
+  return (
+    <form onSubmit={onIssue} noValidate aria-label={amendsNumber ? `Amend certificate ${amendsNumber}` : "Issue a certificate"} className="flex flex-col gap-3">
+      <h3 className="text-lead font-semibold">{amendsNumber ? `Amend certificate ${amendsNumber}` : "Issue a certificate"}</h3>
+      {amendsNumber ? <p className="text-caption text-ink-soft">The amendment gets a new number and says which certificate it replaces; {amendsNumber} stays retrievable, marked superseded.</p> : null}
+      {formError ? <Alert tone="error">{formError}</Alert> : null}
+      {issued ? <Alert tone="success">Certificate {issued} issued and sent to the recipient.</Alert> : null}
+      <div className="grid gap-3 sm:grid-cols-2">
+        <InputField label="Recipient e-mail" type="email" autoComplete="off" error={errors.recipientEmail?.message} {...form.register("recipientEmail")} />
+        <InputField
+          label="Recipient name"
+          autoComplete="off"
+          error={errors.recipientName?.message}
+          {...form.register("recipientName", { setValueAs: (v: string) => (v?.trim() ? v : undefined) })}
+        />
+      </div>
+      {amendsNumber ? <TextAreaField label="Reason for the amendment" rows={2} error={errors.amendReason?.message} {...form.register("amendReason")} /> : null}
+      <div className="flex flex-wrap gap-2">
+        <Button variant="secondary" pending={preview.isPending} onClick={() => void onPreview()}>
+          Preview
+        </Button>
+        <Button type="submit" pending={issue.isPending}>
+          {amendsNumber ? "Issue amendment" : "Issue"}
+        </Button>
+        {onDone ? (
+          <Button variant="quiet" onClick={onDone}>
+            Cancel
+          </Button>
+        ) : null}
+      </div>
+      {previewUrl ? (
+        <div className="flex flex-col gap-2">
+          <p className="text-caption text-ink-soft">Preview — nothing has been stored or sent yet.</p>
+          <iframe title="Certificate preview" src={previewUrl} className="h-[36rem] w-full rounded-control border border-line bg-white" />
+        </div>
+      ) : null}
+    </form>
+  );
+}
+
+function CertificateRow({ workshopId, unitId, certificate: c, canIssue, onAmend }: { workshopId: string; unitId: string; certificate: CertificateListItem; canIssue: boolean; onAmend?: () => void }) {
+  const resend = useResendCertificate(workshopId, unitId);
+  return (
+    <li className="flex flex-col gap-2 px-4 py-3">
+      <div className="flex flex-wrap items-center gap-2">
+        <span className="font-semibold">{c.number}</span>
+        {c.state === "current" ? <Badge tone="moss">Current</Badge> : <Badge>Superseded{c.supersededBy ? ` by ${c.supersededBy}` : ""}</Badge>}
+        <Badge tone="steel">{verdictLabels[c.verdict]}</Badge>
+        {c.amends ? <span className="text-caption text-ink-soft">amends {c.amends}</span> : null}
+      </div>
+      <p className="text-caption text-ink-soft">
+        Issued {formatDateTime(c.issuedAt)} to {c.recipientName ? `${c.recipientName} <${c.recipientEmail}>` : c.recipientEmail} · SHA-256 {c.pdfSha256.slice(0, 16)}…
+      </p>
+      <p className="text-caption">
+        {c.mail === null ? (
+          <span className="text-ink-soft">Not e-mailed.</span>
+        ) : c.mail.state === "sent" ? (
+          <span className="text-moss-600">E-mail sent{c.mail.attempts > 1 ? ` (after ${c.mail.attempts} attempts)` : ""}.</span>
+        ) : c.mail.state === "sending" ? (
+          <span className="text-ink-soft">Sending the e-mail…</span>
+        ) : (
+          <span role="alert" className="font-medium text-rust-700">
+            The e-mail failed: {c.mail.error ?? "no reason given"}. The certificate stays issued; send it again.
+          </span>
+        )}
+      </p>
+      {resend.isError ? <Alert tone="error">{resend.error.message}</Alert> : null}
+      <div className="flex flex-wrap gap-2">
+        <a href={certificatePdfHref(c.number)} target="_blank" rel="noreferrer" className="inline-flex min-h-9 items-center rounded-control border border-line-strong px-3 text-caption font-medium text-steel-700 hover:bg-steel-50">
+          PDF
+        </a>
+        <a href={c.verifyUrl} target="_blank" rel="noreferrer" className="inline-flex min-h-9 items-center rounded-control border border-line-strong px-3 text-caption font-medium text-steel-700 hover:bg-steel-50">
+          Verification page
+        </a>
+        {canIssue ? (
+          <Button size="sm" variant="secondary" pending={resend.isPending} onClick={() => resend.mutate(c.number)}>
+            Re-send
+          </Button>
+        ) : null}
+        {canIssue && onAmend ? (
+          <Button size="sm" variant="quiet" onClick={onAmend}>
+            Amend…
+          </Button>
+        ) : null}
+      </div>
+    </li>
+  );
+}

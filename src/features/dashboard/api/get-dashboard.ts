@@ -1,0 +1,15 @@
+import { queryOptions, useQuery } from "@tanstack/react-query";
+import type { BatchSummary } from "@shared/schemas/batch";
+import { api } from "@/lib/api-client";
+
+export type Dashboard = { openBatches: BatchSummary[]; awaitingReview: number; released: number };
+
+export function getDashboard(): Promise<Dashboard> {
+  return api.get<Dashboard>("/api/dashboard");
+}
+
+export const getDashboardQueryOptions = (workshopId: string) => queryOptions({ queryKey: ["workshops", workshopId, "dashboard"], queryFn: getDashboard });
+
+export function useDashboard(workshopId: string) {
+  return useQuery(getDashboardQueryOptions(workshopId));
+}

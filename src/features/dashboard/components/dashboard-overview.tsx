@@ -1,0 +1,81 @@
+/** The workshop at a glance: open batches with their progress, and how many units wait for QA. */
+import type { ReactNode } from "react";
+import { Link } from "react-router";
+import { Alert } from "@/components/ui/alert";
+import { EmptyState, Panel } from "@/components/ui/panel";
+import { Spinner } from "@/components/ui/spinner";
+import { BatchStateBadge } from "@/components/ui/status-badges";
+import { useDashboard } from "../api/get-dashboard";
+
+type Props = {
+  workshopId: string;
+  batchHref: (id: string) => string;
+  /** What to do when there is no open batch (create one, or ask for one), chosen by role. */
+  noBatchesAction: ReactNode;
+  reviewNote: string;
+};
+
+export function DashboardOverview({ workshopId, batchHref, noBatchesAction, reviewNote }: Props) {
+  const dashboard = useDashboard(workshopId);
+  if (dashboard.isPending) return <Spinner label="Loading the workshop's batches…" />;
+  if (dashboard.isError) return <Alert tone="error">{dashboard.error.message}</Alert>;
+  const { openBatches, awaitingReview, released } = dashboard.data;
+
+  return (
+    <div className="grid items-start gap-6 lg:grid-cols-[1fr_20rem]">
+      <Panel aria-labelledby="open-heading">
+        <h2 id="open-heading" className="text-title font-semibold">
+          Open batches
+        </h2>
+        {openBatches.length === 0 ? (
+          <div className="mt-4">
+            <EmptyState title="No open batches" action={noBatchesAction}>
+              {released > 0 ? `All ${released} batch${released === 1 ? " is" : "es are"} released. ` : ""}Start a batch for the next production run, then strike and upload each unit.
+            </EmptyState>
+          </div>
+        ) : (
+          <ul className="mt-3 divide-y divide-line" aria-label="Open batches">
+            {openBatches.map((b) => {
+              const share = b.units > 0 ? b.measured / b.units : 0;
+              return (
+                <li key={b.id} className="flex flex-wrap items-center justify-between gap-3 py-3">
+                  <div className="min-w-0">
+                    <Link to={batchHref(b.id)} className="font-semibold text-steel-700 underline underline-offset-2">
+                      {b.code}
+                    </Link>{" "}
+                    <BatchStateBadge state={b.state} />
+                    <p className="text-caption text-ink-soft">
+                      {b.spec.name} · version {b.spec.version}
+                    </p>
+                  </div>
+                  <div className="flex items-center gap-3 text-caption">
+                    <span className="tabular-nums">
+                      {b.measured} / {b.units} measured
+                    </span>
+                    <span aria-hidden="true" className="h-2 w-24 overflow-hidden rounded-full bg-sunken">
+                      <span className="block h-full rounded-full bg-steel-500" style={{ width: `${share * 100}%` }} />
+                    </span>
+                    {b.outOfTolerance > 0 ? <span className="font-semibold text-rust-700">{b.outOfTolerance} out of tolerance</span> : null}
+                    {b.inconclusive > 0 ? <span className="text-ochre-600">{b.inconclusive} inconclusive</span> : null}
+                  </div>
+                </li>
+              );
+            })}
+          </ul>
+        )}
+      </Panel>
+      <Panel aria-labelledby="review-heading">
+        <h2 id="review-heading" className="text-title font-semibold">
+          Awaiting review
+        </h2>
+        <p className="mt-2 text-display font-semibold tabular-nums">{awaitingReview}</p>
+        <p className="text-ink-soft">
+          {awaitingReview === 0
+            ? "No unit in an open batch is out of tolerance or inconclusive."
+            : `unit${awaitingReview === 1 ? "" : "s"} out of tolerance or inconclusive in open batches. ${reviewNote}`}
+        </p>
+        <p className="mt-3 text-caption text-ink-faint">{released} batch{released === 1 ? "" : "es"} released so far.</p>
+      </Panel>
+    </div>
+  );
+}

@@ -1,0 +1,110 @@
+/** The unit's verdict against its spec version, with each requirement as measured (strikes combined). */
+import clsx from "clsx";
+import { decisionRuleLabels } from "@shared/schemas/spec";
+import type { CheckResult, EvaluationView as Evaluation, RequirementResult } from "@shared/schemas/evaluation";
+import { Badge, EmptyState } from "@/components/ui/panel";
+import { VerdictBadge } from "@/components/ui/status-badges";
+import { formatCents, formatDateTime, formatNumber } from "@/lib/format";
+
+const resultWords: Record<CheckResult, string> = { pass: "Pass", fail: "Fail", inconclusive: "Inconclusive", not_found: "Not found", not_checked: "Not checked" };
+const resultTone = { pass: "moss", fail: "rust", inconclusive: "ochre", not_found: "rust", not_checked: "neutral" } as const;
+
+export function ResultBadge({ result }: { result: CheckResult }) {
+  return <Badge tone={resultTone[result]}>{resultWords[result]}</Badge>;
+}
+
+export function EvaluationPanel({ evaluation, pending }: { evaluation: Evaluation | null; pending: boolean }) {
+  if (!evaluation) {
+    return (
+      <EmptyState title={pending ? "Waiting for the analysis" : "No evaluation yet"}>
+        {pending ? "The verdict appears here as soon as the strike has been analysed." : "Upload a strike of this unit: it is evaluated against its specification version as soon as the analysis is done."}
+      </EmptyState>
+    );
+  }
+  return (
+    <div className="flex flex-col gap-4">
+      <div className="flex flex-wrap items-center gap-3">
+        <span className="text-lead font-semibold">Verdict:</span>
+        <VerdictBadge verdict={evaluation.verdict} />
+        <span className="text-caption text-ink-soft">
+          {evaluation.strikesUsed} of {evaluation.strikesRequired} required strike{evaluation.strikesRequired === 1 ? "" : "s"} · {decisionRuleLabels[evaluation.decisionRule].split(" (")[0]}
+          {evaluation.temperatureCorrected ? " · corrected to the reference temperature" : ""} · {formatDateTime(evaluation.createdAt)}
+        </span>
+      </div>
+      {evaluation.reasons.length > 0 ? (
+        <ul className="list-disc pl-6 text-ink-soft" aria-label="Reasons">
+          {evaluation.reasons.map((reason) => (
+            <li key={reason}>{reason}</li>
+          ))}
+        </ul>
+      ) : null}
+      <div className="overflow-x-auto">
+        <table className="w-full text-left text-caption">
+          <caption className="sr-only">Requirements as measured</caption>
+          <thead className="border-b border-line-strong text-ink-soft">
+            <tr>
+              {["Partial", "Measured ± U (k = 2)", "Target", "Deviation ± U", "Tolerance", "T60", "Q", "Beat", "Result"].map((h, i) => (
+                <th key={h} scope="col" className={clsx("py-2 pr-3 font-semibold", i > 0 && i < 8 && "text-right")}>
+                  {h}
+                </th>
+              ))}
+            </tr>
+          </thead>
+          <tbody className="divide-y divide-line">
+            {evaluation.requirements.map((r) => (
+              <RequirementRow key={r.label} r={r} />
+            ))}
+          </tbody>
+        </table>
+      </div>
+      <p className="text-caption text-ink-faint">U is the expanded uncertainty with coverage factor k = 2 (about 95 %). Deviations are 1200·log₂(measured / target) cents.</p>
+    </div>
+  );
+}
+
+function RequirementRow({ r }: { r: RequirementResult }) {
+  const failed = (c: CheckResult) => (c === "fail" || c === "not_found" ? "font-semibold text-rust-700" : undefined);
+  return (
+    <>
+      <tr>
+        <th scope="row" className="py-2 pr-3 font-medium">
+          {r.label}
+          {!r.required ? <span className="ml-1 font-normal text-ink-faint">(optional)</span> : null}
+        </th>
+        <td className="py-2 pr-3 text-right tabular-nums">
+          {r.measuredHz != null ? `${formatNumber(r.measuredHz, 3)} ± ${formatNumber(r.expandedUncertaintyHz, 3)} Hz` : "—"}
+        </td>
+        <td className="py-2 pr-3 text-right tabular-nums">
+          {r.targetHz != null ? `${formatNumber(r.targetHz, 3)} Hz` : "—"}
+          {r.targetRatio != null ? <span className="block text-ink-faint">{formatNumber(r.targetRatio, 3)} × f₁{r.measuredRatio != null ? ` (measured ${formatNumber(r.measuredRatio, 3)})` : ""}</span> : null}
+        </td>
+        <td className={clsx("py-2 pr-3 text-right tabular-nums", failed(r.pitch))}>
+          {r.deviationCents != null ? `${formatCents(r.deviationCents)} ± ${formatNumber(r.deviationUncertaintyCents, 1)}` : "—"}
+        </td>
+        <td className="py-2 pr-3 text-right tabular-nums">± {r.toleranceCents} ¢</td>
+        <td className={clsx("py-2 pr-3 text-right tabular-nums", failed(r.t60))}>
+          {r.t60S != null ? `${formatNumber(r.t60S, 1)} s` : "—"}
+          {r.minT60S != null ? <span className="block font-normal text-ink-faint">min {r.minT60S} s</span> : null}
+        </td>
+        <td className={clsx("py-2 pr-3 text-right tabular-nums", failed(r.qResult))}>
+          {formatNumber(r.q, 0)}
+          {r.minQ != null ? <span className="block font-normal text-ink-faint">min {r.minQ}</span> : null}
+        </td>
+        <td className={clsx("py-2 pr-3 text-right tabular-nums", failed(r.beat))}>
+          {r.beatHz != null ? `${formatNumber(r.beatHz, 2)} Hz` : "—"}
+          {r.maxBeatHz != null ? <span className="block font-normal text-ink-faint">max {r.maxBeatHz} Hz</span> : null}
+        </td>
+        <td className="py-2 pr-3">
+          <ResultBadge result={r.result} />
+        </td>
+      </tr>
+      {r.note ? (
+        <tr>
+          <td colSpan={9} className="pb-2 pr-3 text-ink-soft">
+            {r.label}: {r.note}
+          </td>
+        </tr>
+      ) : null}
+    </>
+  );
+}

@@ -1,0 +1,62 @@
+/** The workshop's profile: printed on every certificate and used as the certificate mail's From and Reply-To. */
+import { zodResolver } from "@hookform/resolvers/zod";
+import { useState } from "react";
+import { useForm } from "react-hook-form";
+import { z } from "zod";
+import { Alert } from "@/components/ui/alert";
+import { Button } from "@/components/ui/button";
+import { InputField, TextAreaField } from "@/components/ui/field";
+import { applyServerErrors } from "@/lib/form-errors";
+import { profileGaps, type WorkshopProfile } from "../api/get-workshop";
+import { useUpdateProfile } from "../api/update-profile";
+
+// The same rules as the server's PUT /api/workshop/profile (server/routes/workshop.ts).
+const email = z.union([z.literal(""), z.email("Enter a valid e-mail address, like quality@example.com")]);
+const schema = z.object({
+  address: z.string().trim().max(500, "At most 500 characters"),
+  sendingEmail: email,
+  qualityEmail: email,
+  certificatePrefix: z.string().trim().regex(/^[A-Z0-9-]{1,12}$/, "Capital letters, digits and - only, at most 12 (e.g. BTW)"),
+});
+
+const fields = ["address", "sendingEmail", "qualityEmail", "certificatePrefix"] as const;
+
+export function ProfileForm({ workshopId, profile }: { workshopId: string; profile: WorkshopProfile }) {
+  const update = useUpdateProfile(workshopId);
+  const [formError, setFormError] = useState<string | null>(null);
+  const [saved, setSaved] = useState(false);
+  const form = useForm<WorkshopProfile>({ resolver: zodResolver(schema), defaultValues: profile });
+  const { errors, isSubmitting } = form.formState;
+  const gaps = profileGaps(form.watch());
+
+  const onSubmit = form.handleSubmit(async (values) => {
+    setFormError(null);
+    setSaved(false);
+    try {
+      await update.mutateAsync(values);
+      form.reset(values);
+      setSaved(true);
+    } catch (error) {
+      setFormError(applyServerErrors(error, form.setError, fields));
+    }
+  });
+
+  return (
+    <form onSubmit={onSubmit} noValidate aria-label="Workshop profile" className="flex flex-col gap-4">
+      {formError ? <Alert tone="error">{formError}</Alert> : null}
+      {saved ? <Alert tone="success">Profile saved. New certificates use it from now on.</Alert> : null}
+      {gaps.length > 0 ? <Alert tone="caution">Certificates cannot be issued until the profile is complete: add the {gaps.join(", ")}.</Alert> : null}
+      <TextAreaField label="Postal address" rows={3} hint="Printed on every certificate; one line per row." error={errors.address?.message} {...form.register("address")} />
+      <div className="grid gap-4 sm:grid-cols-2">
+        <InputField label="Sending e-mail" type="email" hint="Certificates are sent from this address." error={errors.sendingEmail?.message} {...form.register("sendingEmail")} />
+        <InputField label="Quality e-mail" type="email" hint="Customers' replies go here." error={errors.qualityEmail?.message} {...form.register("qualityEmail")} />
+        <InputField label="Certificate prefix" hint="Starts every certificate number, e.g. BTW-2026-0001." error={errors.certificatePrefix?.message} {...form.register("certificatePrefix")} />
+      </div>
+      <div>
+        <Button type="submit" pending={isSubmitting}>
+          Save profile
+        </Button>
+      </div>
+    </form>
+  );
+}
