@@ -1,0 +1,129 @@
+/**
+ * The daily loop in a real browser (issue 4, "Done when"): the demo maker drops two recordings on
+ * batch BTW-2612 and watches the ledger fill without a reload; the demo qa user finds BTW-2611's
+ * two forks out of tolerance, is refused a release while they are open, disposes of them and
+ * releases the batch. The strikes are synthesised (tests/support/wav.ts) and analysed by the real
+ * server's analysis pool.
+ */
+import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { demo, launchBrowser, screenshot, signInThroughForm, startServer, type LaunchedBrowser, type RunningServer } from "../support/browser";
+import { forkWav } from "../support/wav";
+import { dispose, ledgerRow, openBatch, waitForVerdicts } from "./ledger-steps";
+
+describe("the ledger loop: maker uploads, qa disposes and releases", () => {
+  let server: RunningServer;
+  let browser: LaunchedBrowser;
+  let wavDir: string;
+
+  beforeAll(async () => {
+    wavDir = mkdtempSync(path.join(tmpdir(), "tinelog-e2e-wav-"));
+    // 440 Hz is on target (±5 cents in the demo spec); 440·2^(−20/1200) Hz is 20 cents flat.
+    writeFileSync(path.join(wavDir, "F-0011-a.wav"), forkWav({ frequencyHz: 440, seed: 11 }));
+    writeFileSync(path.join(wavDir, "bench-take-2.wav"), forkWav({ frequencyHz: 440 * 2 ** (-20 / 1200), seed: 12 }));
+    server = await startServer();
+    browser = await launchBrowser();
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    await server?.stop();
+    if (wavDir) rmSync(wavDir, { recursive: true, force: true });
+  });
+
+  it("the maker drops two recordings on BTW-2612 and sees where each went", async () => {
+    const { page } = browser;
+    await signInThroughForm(page, server.baseUrl, demo.maker);
+    await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
+    await openBatch(page, "BTW-2612");
+    await ledgerRow(page, "F-0011").getByText("Not measured").waitFor();
+    // A marker on this document: if the page reloaded, it would be gone.
+    await page.evaluate(() => Object.assign(window, { __sameDocument: true }));
+
+    await page.getByLabel("WAV files for the batch").setInputFiles([path.join(wavDir, "F-0011-a.wav"), path.join(wavDir, "bench-take-2.wav")]);
+    const uploads = page.getByRole("list", { name: "Batch uploads" });
+    // The named file goes to its unit; the other to the next unit with no strike yet.
+    await uploads.getByRole("listitem").filter({ hasText: "F-0011-a.wav" }).getByText("(matched by file name)").waitFor();
+    const second = uploads.getByRole("listitem").filter({ hasText: "bench-take-2.wav" });
+    await second.getByText("(matched by next unmeasured unit)").waitFor();
+    expect(await second.getByRole("link").textContent()).toBe("F-0012");
+  });
+
+  it("the ledger fills in without a reload: verdicts appear as the analyses finish", async () => {
+    const { page } = browser;
+    await ledgerRow(page, "F-0011").getByText("Within tolerance").waitFor({ timeout: 90_000 });
+    await ledgerRow(page, "F-0012").getByText("Out of tolerance").waitFor({ timeout: 90_000 });
+    // Same document throughout: the page polled, it was not reloaded.
+    expect(await page.evaluate(() => (window as unknown as { __sameDocument?: boolean }).__sameDocument)).toBe(true);
+    const deviation = await ledgerRow(page, "F-0012").getByRole("cell").nth(2).textContent();
+    // −20 cents synthesised; the analysis is checked to a fraction of a cent elsewhere, here the sign and size matter.
+    expect(deviation).toMatch(/^−(19|20|21)\.\d ¢$/);
+    await page.getByRole("button", { name: /^Out of tolerance/ }).click();
+    expect(await page.getByRole("table", { name: "Units of the batch" }).getByRole("row").count()).toBe(2); // header + F-0012
+    await page.getByRole("button", { name: /^All units/ }).click();
+    await screenshot(page, "e2e-ledger-btw-2612");
+  });
+
+  it("the unit out of tolerance shows its tuning guidance with the caution", async () => {
+    const { page } = browser;
+    await ledgerRow(page, "F-0012").getByRole("link", { name: "F-0012" }).click();
+    await page.getByRole("heading", { name: "Unit F-0012", level: 1 }).waitFor();
+    await page.getByRole("list", { name: "Strikes" }).getByText("Done").waitFor();
+    await page.getByRole("heading", { name: "Tuning guidance" }).waitFor();
+    await page.getByText(/^Raise the pitch by about (19|20|21)\.\d cents$/).waitFor();
+    await page.getByRole("status").filter({ hasText: "Caution" }).waitFor();
+    await screenshot(page, "e2e-unit-out-of-tolerance");
+  });
+
+  it("the same file again on the same unit is recognised and refused with the server's words", async () => {
+    const { page } = browser;
+    await page.getByRole("link", { name: "← Batch BTW-2612" }).click();
+    await ledgerRow(page, "F-0011").getByRole("link", { name: "F-0011" }).click();
+    await page.getByRole("heading", { name: "Unit F-0011", level: 1 }).waitFor();
+    await page.getByLabel("WAV recordings for this unit").setInputFiles(path.join(wavDir, "F-0011-a.wav"));
+    const refused = page.getByRole("list", { name: "Uploads" }).getByRole("alert");
+    await refused.waitFor();
+    expect((await refused.textContent())?.toLowerCase()).toContain("already");
+  });
+
+  it("qa sees F-0004 and F-0008 out of tolerance in BTW-2611, is refused a release while they are open", async () => {
+    const { page } = browser;
+    await page.getByRole("button", { name: "Sign out" }).click();
+    await page.getByRole("heading", { name: "Sign in" }).waitFor();
+    await signInThroughForm(page, server.baseUrl, demo.qa);
+    await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
+    await openBatch(page, "BTW-2611");
+    const serials = Array.from({ length: 10 }, (_, i) => `F-${String(i + 1).padStart(4, "0")}`);
+    await waitForVerdicts(page, serials);
+    await page.getByRole("button", { name: /^Out of tolerance/ }).click();
+    const table = page.getByRole("table", { name: "Units of the batch" });
+    const shown = (await table.getByRole("row").allTextContents()).slice(1).map((t) => t.match(/F-\d{4}/)?.[0]);
+    expect(shown.sort()).toEqual(["F-0004", "F-0008"]);
+
+    await page.getByRole("button", { name: "Release batch…" }).click();
+    await page.getByRole("button", { name: "Release BTW-2611 now" }).click();
+    const refusal = page.getByRole("alert").filter({ hasText: "The batch was not released" });
+    await refusal.waitFor();
+    // The server's 409 lists the units still open.
+    expect(await refusal.textContent()).toMatch(/F-0004/);
+    await screenshot(page, "e2e-ledger-release-refused");
+  });
+
+  it("qa disposes of both and releases the batch", async () => {
+    const { page } = browser;
+    await dispose(page, "F-0004", "use_as_is", "Customer accepts −9 cents for a practice fork (demo concession).");
+    await page.getByRole("link", { name: "← Batch BTW-2611" }).click();
+    await dispose(page, "F-0008", "scrap", "Too sharp to rework within the tine length left.");
+    await page.getByRole("link", { name: "← Batch BTW-2611" }).click();
+    await page.getByRole("heading", { name: "Batch BTW-2611", level: 1 }).waitFor();
+    await ledgerRow(page, "F-0008").getByText("Scrap").waitFor();
+    await page.getByRole("button", { name: "Release batch…" }).click();
+    await page.getByRole("button", { name: "Release BTW-2611 now" }).click();
+    await page.getByRole("status").filter({ hasText: /^Released \d.*No more strikes can be added/ }).waitFor();
+    await ledgerRow(page, "F-0004").getByText("Use as is (concession)").waitFor();
+    expect(await page.getByRole("button", { name: "Measure next unit" }).count()).toBe(0);
+    await screenshot(page, "e2e-ledger-released");
+  });
+});
