@@ -157,7 +157,8 @@ export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } =
       const r = refinePartial({ X, M, sampleRate: fs, segStart: analysisStart, segLen, onsetSample: onset, fitStartSample: fitStart, peaksHz: group, neighbourHz });
       if (!r) continue;
       const p = r.partial;
-      if (!Number.isFinite(p.frequencyHz) || !Number.isFinite(p.tauS) || !Number.isFinite(p.amplitudeDb)) continue;
+      // Without a finite fit and covariance there is no measurement to report.
+      if (![p.frequencyHz, p.tauS, p.amplitudeDb, p.frequencyUncertaintyHz, p.tauUncertaintyS].every(Number.isFinite)) continue;
       if ((p.snrDb ?? 0) < 6) continue;
       // Steady tones are not the unit's partials: a struck partial decays measurably.
       const steady = !(r.alpha > 3 * r.alphaUncertainty) || r.alpha <= 0;
@@ -259,11 +260,12 @@ function groupPeaks(freqs: number[]): number[][] {
   return groups;
 }
 
+/** JSON has no NaN or Infinity: a secondary figure that is not finite (fitR2, snrDb) becomes 0. */
 function cleanPartial(p: Partial): Partial {
   const out: Partial = { ...p };
   for (const key of Object.keys(out) as Array<keyof Partial>) {
     const v = out[key];
-    if (typeof v === "number" && !Number.isFinite(v)) (out as Record<string, unknown>)[key] = key === "frequencyUncertaintyHz" || key === "tauUncertaintyS" ? -1 : 0;
+    if (typeof v === "number" && !Number.isFinite(v)) (out as Record<string, unknown>)[key] = 0;
   }
   return out;
 }

@@ -497,11 +497,12 @@ function subsample(y: Float64Array, max: number): { y: Float64Array; step: numbe
 
 /**
  * Information criterion for the number of modes: −2·log-likelihood for complex Gaussian noise,
- * 2n·ln(ssr/n), plus a penalty of 8·ln(n) per mode — the MAP rule for sinusoids in white noise
- * (Djurić, IEEE Trans. SP 44(7):1744–1751, 1996), which charges each frequency-like parameter
- * (here ω and α) 3·ln n and each linear one (Re a, Im a) ln n; reviewed in Stoica & Selén, IEEE
- * Signal Processing Magazine 21(4):36–47, 2004. Stricter than plain BIC (Schwarz, 1978), which
- * keeps noise from being taken for a second mode.
+ * 2n·ln(ssr/n), plus a penalty of 8·ln(n) per mode. This follows the MAP rule for sinusoids in
+ * white noise (Djurić, IEEE Trans. SP 44(7):1744–1751, 1996; reviewed in Stoica & Selén, IEEE
+ * Signal Processing Magazine 21(4):36–47, 2004), which charges a frequency 3·ln n and each linear
+ * parameter (Re a, Im a) ln n; charging the decay rate α like a frequency is our choice, by
+ * analogy. Stricter than plain BIC (Schwarz, Ann. Stat. 6(2), 1978), so noise is not taken for a
+ * second mode.
  */
 export function informationCriterion(fit: DampedFit): number {
   const n = fit.n;

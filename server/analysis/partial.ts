@@ -148,6 +148,13 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
   // Pass 2: one and two modes over the fit window; the information criterion chooses.
   const { one, two } = fitOrders(y, band.dt, true, r.peaksHz.length > 1);
   if (!one) return null;
+  // Uncertainties are the Cramér–Rao bound evaluated at the fit (damped-fit.ts), and approximate
+  // in three ways, all stated here: (1) the noise is taken as white within the band, with its
+  // density at the partial read from the residual and corrected for the taper (the residual
+  // variance averages the band, whose edges are attenuated: σ²_white = σ²_residual / mean(taper²));
+  // (2) the band samples are treated as independent; (3) model error (a decay that is not
+  // exponential, an unmodelled neighbour) is not included — the bound is what noise alone allows.
+  // The reference tests check that the errors on synthetic strikes scatter as these bounds say.
   const noiseWhite = (f: DampedFit) => f.sigma2 / band!.taperPower;
   const cov = (f: DampedFit) => {
     const s = noiseWhite(f) / 2;
@@ -270,6 +277,8 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
     fitStartS,
     fitEndS,
     tauUnreliable: !(tauS > 0) || decayDb < 3,
+    // SNR at the fit start within this partial's analysis band: the partial's amplitude over the
+    // band's noise RMS, the same two levels the decay plot shows (envelope and noise floor).
     snrDb: 20 * Math.log10(Math.sqrt(ptot) / (band.ampScale * (sigma || 1e-300))),
   };
   return {
