@@ -48,3 +48,13 @@ export function formatSeconds(value: number | null | undefined, decimals = 1): s
 export function formatPercent(part: number, whole: number): string {
   return whole > 0 ? `${Math.round((part / whole) * 100)} %` : "0 %";
 }
+
+/**
+ * An uncertainty to two significant figures (GUM 7.2.6: state uncertainties to at most two
+ * significant digits), so a small U is not rounded away to "0.000".
+ */
+export function formatUncertainty(value: number | null | undefined): string {
+  if (value == null || !Number.isFinite(value)) return dash;
+  if (value === 0) return "0";
+  return Number(value.toPrecision(2)).toString();
+}

@@ -10,18 +10,18 @@ export function LedgerSummary({ batch }: { batch: BatchDetail }) {
     { label: "Out of tolerance", value: String(batch.outOfTolerance), tone: batch.outOfTolerance > 0 ? "text-rust-700" : undefined },
     { label: "Inconclusive", value: String(batch.inconclusive), tone: batch.inconclusive > 0 ? "text-ochre-600" : undefined },
     {
-      label: "Mean deviation ± s",
+      label: "Deviation, mean ± s",
       value: s?.meanDeviationCents != null ? `${formatCents(s.meanDeviationCents)} ± ${formatNumber(s.sdDeviationCents, 1)}` : "—",
     },
     { label: "Median T60", value: formatSeconds(s?.medianT60S) },
   ];
   return (
     <div className="flex flex-col gap-2">
-      <dl className="grid grid-cols-2 gap-4 sm:grid-cols-3 lg:grid-cols-6">
+      <dl className="grid grid-cols-2 gap-4 sm:grid-cols-3 xl:grid-cols-6">
         {items.map((item) => (
           <div key={item.label}>
             <dt className="text-caption text-ink-soft">{item.label}</dt>
-            <dd className={`text-title font-semibold tabular-nums ${item.tone ?? ""}`}>{item.value}</dd>
+            <dd className={`whitespace-nowrap text-title font-semibold tabular-nums ${item.tone ?? ""}`}>{item.value}</dd>
           </div>
         ))}
       </dl>

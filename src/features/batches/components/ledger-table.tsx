@@ -109,7 +109,7 @@ export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
         </EmptyState>
       ) : (
         <div className="ledger-scroll overflow-x-auto">
-          <table className="ledger-table w-full text-left">
+          <table className="ledger-table w-full whitespace-nowrap text-left">
             <caption className="sr-only">Units of the batch</caption>
             <thead className="border-b border-line-strong text-caption text-ink-soft">
               {table.getHeaderGroups().map((group) => (

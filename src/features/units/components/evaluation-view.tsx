@@ -4,7 +4,7 @@ import { decisionRuleLabels } from "@shared/schemas/spec";
 import type { CheckResult, EvaluationView as Evaluation, RequirementResult } from "@shared/schemas/evaluation";
 import { Badge, EmptyState } from "@/components/ui/panel";
 import { VerdictBadge } from "@/components/ui/status-badges";
-import { formatCents, formatDateTime, formatNumber } from "@/lib/format";
+import { formatCents, formatDateTime, formatNumber, formatUncertainty } from "@/lib/format";
 
 const resultWords: Record<CheckResult, string> = { pass: "Pass", fail: "Fail", inconclusive: "Inconclusive", not_found: "Not found", not_checked: "Not checked" };
 const resultTone = { pass: "moss", fail: "rust", inconclusive: "ochre", not_found: "rust", not_checked: "neutral" } as const;
@@ -39,7 +39,7 @@ export function EvaluationPanel({ evaluation, pending }: { evaluation: Evaluatio
         </ul>
       ) : null}
       <div className="overflow-x-auto">
-        <table className="w-full text-left text-caption">
+        <table className="w-full whitespace-nowrap text-left text-caption">
           <caption className="sr-only">Requirements as measured</caption>
           <thead className="border-b border-line-strong text-ink-soft">
             <tr>
@@ -52,7 +52,7 @@ export function EvaluationPanel({ evaluation, pending }: { evaluation: Evaluatio
           </thead>
           <tbody className="divide-y divide-line">
             {evaluation.requirements.map((r) => (
-              <RequirementRow key={r.label} r={r} />
+              <RequirementRow key={r.label} r={r} repeatsReason={r.note !== null && evaluation.reasons.some((reason) => reason.includes(r.note as string))} />
             ))}
           </tbody>
         </table>
@@ -62,7 +62,7 @@ export function EvaluationPanel({ evaluation, pending }: { evaluation: Evaluatio
   );
 }
 
-function RequirementRow({ r }: { r: RequirementResult }) {
+function RequirementRow({ r, repeatsReason }: { r: RequirementResult; repeatsReason: boolean }) {
   const failed = (c: CheckResult) => (c === "fail" || c === "not_found" ? "font-semibold text-rust-700" : undefined);
   return (
     <>
@@ -72,14 +72,14 @@ function RequirementRow({ r }: { r: RequirementResult }) {
           {!r.required ? <span className="ml-1 font-normal text-ink-faint">(optional)</span> : null}
         </th>
         <td className="py-2 pr-3 text-right tabular-nums">
-          {r.measuredHz != null ? `${formatNumber(r.measuredHz, 3)} ± ${formatNumber(r.expandedUncertaintyHz, 3)} Hz` : "—"}
+          {r.measuredHz != null ? `${formatNumber(r.measuredHz, 3)} ± ${formatUncertainty(r.expandedUncertaintyHz)} Hz` : "—"}
         </td>
         <td className="py-2 pr-3 text-right tabular-nums">
           {r.targetHz != null ? `${formatNumber(r.targetHz, 3)} Hz` : "—"}
           {r.targetRatio != null ? <span className="block text-ink-faint">{formatNumber(r.targetRatio, 3)} × f₁{r.measuredRatio != null ? ` (measured ${formatNumber(r.measuredRatio, 3)})` : ""}</span> : null}
         </td>
         <td className={clsx("py-2 pr-3 text-right tabular-nums", failed(r.pitch))}>
-          {r.deviationCents != null ? `${formatCents(r.deviationCents)} ± ${formatNumber(r.deviationUncertaintyCents, 1)}` : "—"}
+          {r.deviationCents != null ? `${formatCents(r.deviationCents)} ± ${formatUncertainty(r.deviationUncertaintyCents)}` : "—"}
         </td>
         <td className="py-2 pr-3 text-right tabular-nums">± {r.toleranceCents} ¢</td>
         <td className={clsx("py-2 pr-3 text-right tabular-nums", failed(r.t60))}>
@@ -98,9 +98,9 @@ function RequirementRow({ r }: { r: RequirementResult }) {
           <ResultBadge result={r.result} />
         </td>
       </tr>
-      {r.note ? (
+      {r.note && !repeatsReason ? (
         <tr>
-          <td colSpan={9} className="pb-2 pr-3 text-ink-soft">
+          <td colSpan={9} className="whitespace-normal pb-2 pr-3 text-ink-soft">
             {r.label}: {r.note}
           </td>
         </tr>

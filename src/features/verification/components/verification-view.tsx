@@ -5,7 +5,7 @@
 import clsx from "clsx";
 import { decisionRuleWords, verdictWords } from "@shared/schemas/certificate";
 import { Alert } from "@/components/ui/alert";
-import { formatCents, formatDate, formatDateTime, formatNumber } from "@/lib/format";
+import { formatCents, formatDate, formatDateTime, formatNumber, formatUncertainty } from "@/lib/format";
 import type { Verification } from "../api/get-verification";
 
 const lineWords = { pass: "Pass", fail: "Fail", inconclusive: "Inconclusive" } as const;
@@ -74,7 +74,7 @@ export function VerificationView({ v }: { v: Verification }) {
                 <span className={clsx("text-caption font-semibold", r.result === "pass" ? "text-moss-600" : r.result === "fail" ? "text-rust-700" : "text-ochre-600")}>{lineWords[r.result]}</span>
               </div>
               <span className="tabular-nums">
-                {formatNumber(r.measuredHz, 3)} Hz ± {formatNumber(r.expandedUncertaintyHz, 3)} Hz (k = 2)
+                {formatNumber(r.measuredHz, 3)} Hz ± {formatUncertainty(r.expandedUncertaintyHz)} Hz (k = 2)
               </span>
               <span className="text-caption text-ink-soft tabular-nums">
                 Deviation {formatCents(r.deviationCents)}, tolerance ± {r.toleranceCents} ¢
