@@ -21,6 +21,24 @@ export function fittedLevelDb(amplitudeDb: number, t0: number, tauS: number, t: 
   return amplitudeDb - (DB_PER_NEPER * (t - t0)) / tauS;
 }
 
+/**
+ * Level at t = 0 (dB) of the line with time constant τ that passes through the mean of the
+ * envelope between `fromS` and `toS` (least squares for the offset with the slope fixed), or
+ * null when no envelope point falls in that range.
+ */
+export function stageAnchor(envelope: { timeS: number[]; levelDb: number[] }, fromS: number, toS: number, tauS: number): number | null {
+  let sum = 0;
+  let n = 0;
+  envelope.timeS.forEach((t, i) => {
+    const level = envelope.levelDb[i];
+    if (t >= fromS && t <= toS && Number.isFinite(level)) {
+      sum += level + (DB_PER_NEPER * t) / tauS;
+      n++;
+    }
+  });
+  return n ? sum / n : null;
+}
+
 export function DecayChart({ partial, envelope, label, height = 220 }: { partial: Partial; envelope: StrikePlot["envelopes"][number]; label: string; height?: number }) {
   const t0 = partial.amplitudeAtS ?? partial.fitStartS;
   const two = partial.twoStage ?? null;
@@ -28,13 +46,16 @@ export function DecayChart({ partial, envelope, label, height = 220 }: { partial
   const data = useMemo<uPlot.AlignedData>(() => {
     const t = envelope.timeS;
     const inFit = (x: number) => x >= partial.fitStartS && x <= partial.fitEndS;
-    const fit = t.map((x) => (inFit(x) && !two ? fittedLevelDb(partial.amplitudeDb, t0, partial.tauS, x) : null));
-    const series: (number | null)[][] = [envelope.levelDb, fit, t.map(() => envelope.noiseFloorDb)];
+    const series: (number | null)[][] = [envelope.levelDb, t.map(() => envelope.noiseFloorDb)];
     if (two) {
-      // The two stages meet at the knee: the late line starts where the early one ends.
-      const kneeLevel = fittedLevelDb(partial.amplitudeDb, t0, two.earlyTauS, two.kneeS);
-      series.push(t.map((x) => (inFit(x) && x <= two.kneeS ? fittedLevelDb(partial.amplitudeDb, t0, two.earlyTauS, x) : null)));
-      series.push(t.map((x) => (inFit(x) && x >= two.kneeS ? fittedLevelDb(kneeLevel, two.kneeS, two.lateTauS, x) : null)));
+      // The analysis reports each stage's τ and the knee, not the stages' levels: each line is
+      // drawn with its reported slope through the mean of the envelope over its own stage.
+      const early = stageAnchor(envelope, partial.fitStartS, two.kneeS, two.earlyTauS);
+      const late = stageAnchor(envelope, two.kneeS, partial.fitEndS, two.lateTauS);
+      series.push(t.map((x) => (early !== null && inFit(x) && x <= two.kneeS ? fittedLevelDb(early, 0, two.earlyTauS, x) : null)));
+      series.push(t.map((x) => (late !== null && inFit(x) && x >= two.kneeS ? fittedLevelDb(late, 0, two.lateTauS, x) : null)));
+    } else {
+      series.push(t.map((x) => (inFit(x) ? fittedLevelDb(partial.amplitudeDb, t0, partial.tauS, x) : null)));
     }
     return [t, ...series];
   }, [envelope, partial, t0, two]);
@@ -64,15 +85,17 @@ export function DecayChart({ partial, envelope, label, height = 220 }: { partial
     const levels = [...envelope.levelDb.filter((v) => Number.isFinite(v)), envelope.noiseFloorDb];
     const yMin = Math.min(...levels);
     const yMax = Math.max(...levels, partial.amplitudeDb);
+    const dbValue = (_u: uPlot, v: number | null) => (v == null ? "–" : `${v.toFixed(1)} dBFS`);
     const series: uPlot.Series[] = [
       { label: "Time", value: (_u, v) => (v == null ? "–" : `${v.toFixed(3)} s`) },
-      { label: "Envelope", stroke: chartColours.envelope, width: 1.25, value: (_u, v) => (v == null ? "–" : `${v.toFixed(1)} dBFS`) },
-      { label: `Fit, τ = ${fixed(partial.tauS, 3)} s`, stroke: chartColours.fit, width: 2, show: !two, value: (_u, v) => (v == null ? "–" : `${v.toFixed(1)} dBFS`) },
-      { label: "Noise floor", stroke: chartColours.noise, width: 1.25, dash: [6, 4], value: (_u, v) => (v == null ? "–" : `${v.toFixed(1)} dBFS`) },
+      { label: "Envelope", stroke: chartColours.envelopeLight, width: 1.5, value: dbValue },
+      { label: "Noise floor", stroke: chartColours.noise, width: 1.25, dash: [6, 4], value: dbValue },
     ];
     if (two) {
-      series.push({ label: `Early, τ = ${fixed(two.earlyTauS, 3)} s`, stroke: chartColours.early, width: 2, value: (_u, v) => (v == null ? "–" : `${v.toFixed(1)} dBFS`) });
-      series.push({ label: `Late, τ = ${fixed(two.lateTauS, 3)} s`, stroke: chartColours.late, width: 2, value: (_u, v) => (v == null ? "–" : `${v.toFixed(1)} dBFS`) });
+      series.push({ label: `Early, τ = ${fixed(two.earlyTauS, 3)} s`, stroke: chartColours.early, width: 2.5, dash: [8, 3], value: dbValue });
+      series.push({ label: `Late, τ = ${fixed(two.lateTauS, 3)} s`, stroke: chartColours.late, width: 2.5, dash: [8, 3], value: dbValue });
+    } else {
+      series.push({ label: `Fit, τ = ${fixed(partial.tauS, 3)} s`, stroke: chartColours.fit, width: 2, value: dbValue });
     }
     return {
       scales: { x: { time: false }, y: { range: [Math.floor(yMin / 10) * 10 - 5, Math.ceil(yMax / 10) * 10 + 5] } },

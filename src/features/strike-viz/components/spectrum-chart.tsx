@@ -61,7 +61,8 @@ export function SpectrumChart({ spectrum, humHz, rows }: { spectrum: StrikePlot[
     return {
       scales: {
         // STACK.md trap 10: uPlot's x axis is a time axis unless told otherwise.
-        x: { time: false, distr: scale === "log" ? 3 : 1, log: 10, range: [fMin, fMax] },
+        // On the log axis, start at a power of ten so the ticks fall on 10, 100, 1k, 10k.
+        x: { time: false, distr: scale === "log" ? 3 : 1, log: 10, range: [scale === "log" ? Math.max(10, Math.pow(10, Math.floor(Math.log10(fMin)))) : 0, fMax] },
         y: { auto: true },
       },
       axes: [

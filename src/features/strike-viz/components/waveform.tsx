@@ -18,6 +18,14 @@ import { useStrikeAudio } from "../api/get-strike-audio";
 import { chartColours } from "../lib/colours";
 import { spectrogramColourMap } from "../lib/spectrogram-colours";
 
+/** Tick and label spacing of the time axis for a recording of `durationS` seconds. */
+function timelineSteps(durationS: number) {
+  if (durationS <= 2) return { timeInterval: 0.05, primaryLabelInterval: 0.5, secondaryLabelInterval: 0.25 };
+  if (durationS <= 12) return { timeInterval: 0.1, primaryLabelInterval: 1, secondaryLabelInterval: 0.5 };
+  if (durationS <= 60) return { timeInterval: 0.5, primaryLabelInterval: 5, secondaryLabelInterval: 1 };
+  return { timeInterval: 5, primaryLabelInterval: 30, secondaryLabelInterval: 10 };
+}
+
 const ZOOM_STEPS = [0, 50, 100, 200, 400, 800, 1600] as const;
 
 export function Waveform({
@@ -68,7 +76,13 @@ export function Waveform({
       sampleRate: sampleRate ? Math.min(sampleRate, 96_000) : 44_100,
       plugins: [
         regions,
-        TimelinePlugin.create({ height: 18, style: { fontSize: "12px", color: chartColours.axis } }),
+        TimelinePlugin.create({
+          height: 20,
+          ...timelineSteps(durationS ?? 0),
+          secondaryLabelOpacity: 0.7,
+          formatTimeCallback: (s) => `${+s.toFixed(2)} s`,
+          style: { fontSize: "11px", lineHeight: "14px", color: chartColours.axis },
+        }),
         HoverPlugin.create({
           lineColor: chartColours.cursor,
           lineWidth: 1,
@@ -107,7 +121,7 @@ export function Waveform({
       ws.destroy();
       wsRef.current = null;
     };
-  }, [audio.data, onsetsS, sampleRate]);
+  }, [audio.data, onsetsS, sampleRate, durationS]);
 
   // The spectrogram is a plugin registered on demand, so hiding it also frees its canvases.
   useEffect(() => {
@@ -129,6 +143,9 @@ export function Waveform({
           scale: "linear",
           frequencyMax: Math.min(nyquist, 12_000),
           colorMap: spectrogramColourMap,
+          // White point −10 dB, 70 dB of range: the ring shows, the room noise stays pale.
+          gainDB: 10,
+          rangeDB: 70,
         }),
       );
     } else if (!showSpectrogram && spectroPluginRef.current) {

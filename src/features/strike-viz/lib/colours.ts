@@ -15,6 +15,8 @@ export const chartColours = {
   partial: "#9c3526",
   hum: "#6f787a",
   envelope: "#1f5d65",
+  /** Lighter than the fit lines so a fit drawn on top of its envelope stays visible. */
+  envelopeLight: "#4a8f96",
   fit: "#9c3526",
   early: "#8a5a0f",
   late: "#2f6b3c",

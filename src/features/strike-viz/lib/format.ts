@@ -6,15 +6,32 @@ export function formatHz(hz: number, digits?: number): string {
   return `${hz.toLocaleString("en-GB", { minimumFractionDigits: d, maximumFractionDigits: d })} Hz`;
 }
 
+const SUPERSCRIPT: Record<string, string> = { "-": "⁻", "0": "⁰", "1": "¹", "2": "²", "3": "³", "4": "⁴", "5": "⁵", "6": "⁶", "7": "⁷", "8": "⁸", "9": "⁹" };
+
+/** 4.7 × 10⁻⁷ — two significant digits in scientific notation. */
+export function scientific(value: number): string {
+  const e = Math.floor(Math.log10(Math.abs(value)));
+  const m = value / Math.pow(10, e);
+  return `${m.toFixed(1)} × 10${String(e).replace(/./g, (c) => SUPERSCRIPT[c] ?? c)}`;
+}
+
 /**
- * A value with its standard uncertainty, rounded so the uncertainty has two significant digits
- * (the usual way to quote a result with its uncertainty; GUM JCGM 100:2008 §7.2.6).
+ * A value and its standard uncertainty, rounded so the uncertainty has two significant digits
+ * (the usual way to quote a result; GUM JCGM 100:2008 §7.2.6). Past `maxDecimals` the value is
+ * cut there and the uncertainty is written in scientific notation, so a synthetic or very clean
+ * strike does not print ten decimals.
  */
-export function withUncertainty(value: number, u: number, unit: string): string {
-  if (!Number.isFinite(u) || u <= 0) return `${fixed(value, 3)} ${unit}`;
-  const exponent = Math.floor(Math.log10(u)) - 1;
-  const decimals = Math.max(0, -exponent);
-  return `${value.toFixed(decimals)} ± ${u.toFixed(decimals)} ${unit}`;
+export function splitUncertainty(value: number, u: number, maxDecimals = 4): { value: string; u: string | null } {
+  if (!Number.isFinite(u) || u <= 0) return { value: value.toFixed(Math.min(3, maxDecimals)), u: null };
+  const decimals = Math.max(0, 1 - Math.floor(Math.log10(u)));
+  if (decimals > maxDecimals) return { value: value.toFixed(maxDecimals), u: scientific(u) };
+  return { value: value.toFixed(decimals), u: u.toFixed(decimals) };
+}
+
+/** One-line form of splitUncertainty: "440.305 ± 0.012 Hz". */
+export function withUncertainty(value: number, u: number, unit: string, maxDecimals = 4): string {
+  const s = splitUncertainty(value, u, maxDecimals);
+  return s.u === null ? `${s.value} ${unit}` : `${s.value} ± ${s.u} ${unit}`;
 }
 
 export function fixed(value: number, decimals: number): string {

@@ -25,6 +25,12 @@ export type PartialRow = {
   toleranceCents: number | null;
 };
 
+/** What the ratios are taken against: the spec's fundamental, or (unmatched) the lowest partial. */
+export function ratioReference(rows: readonly PartialRow[]): "fundamental" | "lowest" | null {
+  if (!rows.length) return null;
+  return rows.some((r) => r.isFundamental) ? "fundamental" : "lowest";
+}
+
 export const partialFallbackLabel = (index: number) => `partial ${index + 1}`;
 
 /**
@@ -34,11 +40,13 @@ export const partialFallbackLabel = (index: number) => `partial ${index + 1}`;
 export function partialRows(partials: readonly Partial[], labels: Record<number, string>, requirements: readonly RequirementResult[] | null): PartialRow[] {
   const byLabel = new Map((requirements ?? []).map((r) => [r.label, r] as const));
   const fundamentalLabel = requirements?.find((r) => r.isFundamental)?.label;
-  // The fundamental is the partial the spec calls fundamental; without a spec match, the lowest partial.
+  // The fundamental is the partial the spec calls fundamental. Without that match, ratios are
+  // taken to the lowest partial (marked as such by `ratioReference`), which is what a maker
+  // reads off an unlabelled spectrum anyway.
   let f0Index = -1;
   for (const [key, label] of Object.entries(labels)) if (label === fundamentalLabel) f0Index = Number(key);
-  if (f0Index < 0 && partials.length && !fundamentalLabel) f0Index = 0;
-  const f0 = f0Index >= 0 ? partials[f0Index]?.frequencyHz ?? null : null;
+  const refIndex = f0Index >= 0 ? f0Index : partials.length ? 0 : -1;
+  const f0 = refIndex >= 0 ? partials[refIndex]?.frequencyHz ?? null : null;
 
   return partials.map((partial, index) => {
     const specLabel = labels[index];
@@ -49,7 +57,7 @@ export function partialRows(partials: readonly Partial[], labels: Record<number,
     const targetRatio = requirement?.targetRatio ?? null;
     // A ratio target is judged on the measured ratio (as the evaluation does); a frequency target on f.
     const targetHz = requirement && targetRatio === null ? requirement.targetHz : null;
-    if (targetRatio !== null && ratio !== null && !isFundamental) deviationCents = cents(ratio, targetRatio);
+    if (targetRatio !== null && ratio !== null && f0Index >= 0 && !isFundamental) deviationCents = cents(ratio, targetRatio);
     else if (targetHz) deviationCents = cents(partial.frequencyHz, targetHz);
     return {
       index,
