@@ -29,6 +29,10 @@ const MAX_PARTIALS = 24;
 const PEAK_PROMINENCE_DB = 15;
 const PEAK_RANGE_DB = 70;
 const MIN_PARTIAL_HZ = 20;
+/** A partial must ring for at least 10 cycles per time constant (Q = π·f·τ ≥ 10π ≈ 31): anything
+ *  shorter is the thud of the strike or a resonance of the surroundings, not a mode of the unit.
+ *  Our threshold (struck metal partials have Q in the hundreds to thousands). */
+const MIN_Q = 10 * Math.PI;
 /** Longest segment used for refinement, samples (bounds memory and FFT size: 2^22 points). */
 const MAX_SEGMENT = 3_800_000;
 const LOW_RATE_HZ = 22050;
@@ -160,6 +164,7 @@ export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } =
       // Without a finite fit and covariance there is no measurement to report.
       if (![p.frequencyHz, p.tauS, p.amplitudeDb, p.frequencyUncertaintyHz, p.tauUncertaintyS].every(Number.isFinite)) continue;
       if ((p.snrDb ?? 0) < 6) continue;
+      if (p.q < MIN_Q) continue;
       // Steady tones are not the unit's partials: a struck partial decays measurably.
       const steady = !(r.alpha > 3 * r.alphaUncertainty) || r.alpha <= 0;
       const mains = humFundamental(p.frequencyHz);
