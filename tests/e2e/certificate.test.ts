@@ -67,7 +67,7 @@ describe("a certificate: issued by qa, mailed with its PDF, verified signed out"
     await screenshot(page, "e2e-certificate-preview");
 
     await form.getByRole("button", { name: "Issue", exact: true }).click();
-    const issued = form.getByRole("status").filter({ hasText: /Certificate .+ issued/ });
+    const issued = page.getByRole("status").filter({ hasText: /Certificate .+ issued/ });
     await issued.waitFor();
     certificateNumber = ((await issued.textContent()) ?? "").match(/Certificate (\S+) issued/)?.[1] ?? "";
     expect(certificateNumber).toMatch(/^BTW-/);

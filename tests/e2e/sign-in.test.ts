@@ -50,12 +50,18 @@ describe("signing in as the demo maker", () => {
     await screenshot(page, "e2e-maker-dashboard");
   });
 
-  it("says plainly that batches are not built yet, with no made-up rows", async () => {
+  it("lists the demo workshop's batches, and no specification editor for a maker", async () => {
     const { page } = browser;
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: /^Batches/ }).click();
     await page.getByRole("heading", { name: "Batches", level: 1 }).waitFor();
-    await page.getByText("Batches arrive with the ledger.").waitFor();
-    expect(await page.getByRole("table").count()).toBe(0);
+    const table = page.getByRole("table", { name: "Batches" });
+    await table.getByRole("link", { name: "BTW-2611" }).waitFor();
+    await table.getByRole("link", { name: "BTW-2612" }).waitFor();
+    await page.getByRole("link", { name: "New batch" }).waitFor();
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Specifications" }).click();
+    await page.getByRole("heading", { name: "Specifications", level: 1 }).waitFor();
+    await page.getByRole("link", { name: "BTW-440 concert fork, steel" }).waitFor();
+    expect(await page.getByRole("link", { name: "New specification" }).count()).toBe(0);
     await screenshot(page, "e2e-maker-batches");
   });
 

@@ -5,6 +5,7 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useEffect, useState } from "react";
 import { useForm } from "react-hook-form";
+import { Link } from "react-router";
 import { issueCertificateSchema, type IssueCertificateInput } from "@shared/schemas/certificate";
 import { verdictLabels } from "@shared/schemas/evaluation";
 import { Alert } from "@/components/ui/alert";
@@ -33,10 +34,20 @@ type Props = {
 export function CertificatesPanel({ workshopId, unitId, customer, canIssue, blockedReason, settingsHref }: Props) {
   const certificates = useCertificates(workshopId, unitId);
   const [amending, setAmending] = useState<string | null>(null);
+  const [issuing, setIssuing] = useState(false);
+  const [lastIssued, setLastIssued] = useState<string | null>(null);
   const current = certificates.data?.filter((c) => c.state === "current") ?? [];
+  // With a current certificate, a further one is a deliberate step, not the form left open.
+  const showIssueForm = issuing || (certificates.isSuccess && current.length === 0);
+  const done = (number: string | null) => {
+    setLastIssued(number);
+    setIssuing(false);
+    setAmending(null);
+  };
 
   return (
     <div className="flex flex-col gap-5">
+      {lastIssued ? <Alert tone="success">Certificate {lastIssued} issued; the e-mail to the recipient is listed below.</Alert> : null}
       {canIssue ? (
         blockedReason ? (
           <Alert tone="info">{blockedReason}</Alert>
@@ -47,12 +58,19 @@ export function CertificatesPanel({ workshopId, unitId, customer, canIssue, bloc
             unitId={unitId}
             customer={customer}
             amendsNumber={amending}
-            onDone={() => setAmending(null)}
+            onIssued={done}
+            onCancel={() => setAmending(null)}
             settingsHref={settingsHref}
           />
-        ) : (
-          <IssueForm key="issue" workshopId={workshopId} unitId={unitId} customer={customer} settingsHref={settingsHref} />
-        )
+        ) : showIssueForm ? (
+          <IssueForm key="issue" workshopId={workshopId} unitId={unitId} customer={customer} onIssued={done} onCancel={current.length > 0 ? () => setIssuing(false) : undefined} settingsHref={settingsHref} />
+        ) : certificates.isSuccess ? (
+          <div>
+            <Button variant="secondary" onClick={() => { setLastIssued(null); setIssuing(true); }}>
+              Issue a further certificate…
+            </Button>
+          </div>
+        ) : null
       ) : null}
 
       {certificates.isPending ? (
@@ -86,21 +104,23 @@ function IssueForm({
   unitId,
   customer,
   amendsNumber,
-  onDone,
+  onIssued,
+  onCancel,
   settingsHref,
 }: {
   workshopId: string;
   unitId: string;
   customer: { name: string | null; email: string | null };
   amendsNumber?: string;
-  onDone?: () => void;
+  onIssued: (number: string) => void;
+  onCancel?: () => void;
   settingsHref?: string;
 }) {
   const issue = useIssueCertificate(workshopId, unitId);
   const preview = usePreviewCertificate(unitId);
   const [formError, setFormError] = useState<string | null>(null);
-  const [issued, setIssued] = useState<string | null>(null);
   const [previewUrl, setPreviewUrl] = useState<string | null>(null);
+  const [needsProfile, setNeedsProfile] = useState(false);
   const form = useForm<IssueCertificateInput>({
     resolver: zodResolver(issueCertificateSchema),
     defaultValues: { recipientEmail: customer.email ?? "", recipientName: customer.name ?? undefined, amendsNumber, amendReason: amendsNumber ? "" : undefined },
@@ -112,8 +132,8 @@ function IssueForm({
 
   const fail = (error: unknown) => {
     const message = applyServerErrors(error, form.setError, ["recipientEmail", "recipientName", "amendReason"]);
-    const needsProfile = isApiError(error) && /profile|address|sending|settings/i.test(error.message);
-    setFormError(message ? (needsProfile && settingsHref ? `${message} (Workshop settings: ${settingsHref})` : message) : null);
+    setNeedsProfile(isApiError(error) && /profile|address|sending|settings/i.test(error.message));
+    setFormError(message);
   };
 
   const clean = (values: IssueCertificateInput): IssueCertificateInput => ({
@@ -136,9 +156,8 @@ function IssueForm({
     setFormError(null);
     try {
       const result = await issue.mutateAsync(clean(values));
-      setIssued(result.number);
       setPreviewUrl(null);
-      onDone?.();
+      onIssued(result.number);
     } catch (error) {
       fail(error);
     }
@@ -148,8 +167,20 @@ function IssueForm({
     <form onSubmit={onIssue} noValidate aria-label={amendsNumber ? `Amend certificate ${amendsNumber}` : "Issue a certificate"} className="flex flex-col gap-3">
       <h3 className="text-lead font-semibold">{amendsNumber ? `Amend certificate ${amendsNumber}` : "Issue a certificate"}</h3>
       {amendsNumber ? <p className="text-caption text-ink-soft">The amendment gets a new number and says which certificate it replaces; {amendsNumber} stays retrievable, marked superseded.</p> : null}
-      {formError ? <Alert tone="error">{formError}</Alert> : null}
-      {issued ? <Alert tone="success">Certificate {issued} issued and sent to the recipient.</Alert> : null}
+      {formError ? (
+        <Alert tone="error">
+          {formError}
+          {needsProfile && settingsHref ? (
+            <>
+              {" "}
+              <Link to={settingsHref} className="font-semibold underline underline-offset-2">
+                Complete the workshop settings
+              </Link>
+              .
+            </>
+          ) : null}
+        </Alert>
+      ) : null}
       <div className="grid gap-3 sm:grid-cols-2">
         <InputField label="Recipient e-mail" type="email" autoComplete="off" error={errors.recipientEmail?.message} {...form.register("recipientEmail")} />
         <InputField
@@ -167,8 +198,8 @@ function IssueForm({
         <Button type="submit" pending={issue.isPending}>
           {amendsNumber ? "Issue amendment" : "Issue"}
         </Button>
-        {onDone ? (
-          <Button variant="quiet" onClick={onDone}>
+        {onCancel ? (
+          <Button variant="quiet" onClick={onCancel}>
             Cancel
           </Button>
         ) : null}

@@ -39,12 +39,12 @@ export function EvaluationPanel({ evaluation, pending }: { evaluation: Evaluatio
         </ul>
       ) : null}
       <div className="overflow-x-auto">
-        <table className="w-full whitespace-nowrap text-left text-caption">
+        <table className="w-full text-left text-caption">
           <caption className="sr-only">Requirements as measured</caption>
           <thead className="border-b border-line-strong text-ink-soft">
             <tr>
               {["Partial", "Measured ± U (k = 2)", "Target", "Deviation ± U", "Tolerance", "T60", "Q", "Beat", "Result"].map((h, i) => (
-                <th key={h} scope="col" className={clsx("py-2 pr-3 font-semibold", i > 0 && i < 8 && "text-right")}>
+                <th key={h} scope="col" className={clsx("py-2 pr-3 align-bottom font-semibold", i > 0 && i < 8 && "text-right")}>
                   {h}
                 </th>
               ))}
@@ -71,26 +71,26 @@ function RequirementRow({ r, repeatsReason }: { r: RequirementResult; repeatsRea
           {r.label}
           {!r.required ? <span className="ml-1 font-normal text-ink-faint">(optional)</span> : null}
         </th>
-        <td className="py-2 pr-3 text-right tabular-nums">
+        <td className="whitespace-nowrap py-2 pr-3 text-right tabular-nums">
           {r.measuredHz != null ? `${formatNumber(r.measuredHz, 3)} ± ${formatUncertainty(r.expandedUncertaintyHz)} Hz` : "—"}
         </td>
-        <td className="py-2 pr-3 text-right tabular-nums">
+        <td className="whitespace-nowrap py-2 pr-3 text-right tabular-nums">
           {r.targetHz != null ? `${formatNumber(r.targetHz, 3)} Hz` : "—"}
           {r.targetRatio != null ? <span className="block text-ink-faint">{formatNumber(r.targetRatio, 3)} × f₁{r.measuredRatio != null ? ` (measured ${formatNumber(r.measuredRatio, 3)})` : ""}</span> : null}
         </td>
-        <td className={clsx("py-2 pr-3 text-right tabular-nums", failed(r.pitch))}>
+        <td className={clsx("whitespace-nowrap py-2 pr-3 text-right tabular-nums", failed(r.pitch))}>
           {r.deviationCents != null ? `${formatCents(r.deviationCents)} ± ${formatUncertainty(r.deviationUncertaintyCents)}` : "—"}
         </td>
-        <td className="py-2 pr-3 text-right tabular-nums">± {r.toleranceCents} ¢</td>
-        <td className={clsx("py-2 pr-3 text-right tabular-nums", failed(r.t60))}>
+        <td className="whitespace-nowrap py-2 pr-3 text-right tabular-nums">± {r.toleranceCents} ¢</td>
+        <td className={clsx("whitespace-nowrap py-2 pr-3 text-right tabular-nums", failed(r.t60))}>
           {r.t60S != null ? `${formatNumber(r.t60S, 1)} s` : "—"}
           {r.minT60S != null ? <span className="block font-normal text-ink-faint">min {r.minT60S} s</span> : null}
         </td>
-        <td className={clsx("py-2 pr-3 text-right tabular-nums", failed(r.qResult))}>
+        <td className={clsx("whitespace-nowrap py-2 pr-3 text-right tabular-nums", failed(r.qResult))}>
           {formatNumber(r.q, 0)}
           {r.minQ != null ? <span className="block font-normal text-ink-faint">min {r.minQ}</span> : null}
         </td>
-        <td className={clsx("py-2 pr-3 text-right tabular-nums", failed(r.beat))}>
+        <td className={clsx("whitespace-nowrap py-2 pr-3 text-right tabular-nums", failed(r.beat))}>
           {r.beatHz != null ? `${formatNumber(r.beatHz, 2)} Hz` : "—"}
           {r.maxBeatHz != null ? <span className="block font-normal text-ink-faint">max {r.maxBeatHz} Hz</span> : null}
         </td>
@@ -100,7 +100,7 @@ function RequirementRow({ r, repeatsReason }: { r: RequirementResult; repeatsRea
       </tr>
       {r.note && !repeatsReason ? (
         <tr>
-          <td colSpan={9} className="whitespace-normal pb-2 pr-3 text-ink-soft">
+          <td colSpan={9} className="pb-2 pr-3 text-ink-soft">
             {r.label}: {r.note}
           </td>
         </tr>

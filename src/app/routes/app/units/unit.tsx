@@ -86,7 +86,7 @@ export function UnitRoute() {
           <UnitCustomerForm key={`${u.customerName}|${u.customerEmail}`} workshopId={workshopId} unit={u} canEdit={can(role, "unit", "create")} />
         </Panel>
 
-        {canStrike ? (
+        {canStrike && !released ? (
           <Panel aria-labelledby="upload-heading">
             <h2 id="upload-heading" className="mb-3 text-title font-semibold">
               Record or upload strikes
@@ -94,8 +94,6 @@ export function UnitRoute() {
             <StrikeUpload
               workshopId={workshopId}
               unitId={u.id}
-              disabled={released}
-              disabledReason={released ? `Batch ${u.batch.code} is released: no more strikes can be added.` : undefined}
               recorder={(addFile, disabled) => <StrikeRecorder onRecorded={addFile} disabled={disabled} />}
             />
           </Panel>
