@@ -53,8 +53,10 @@ export function formatPercent(part: number, whole: number): string {
  * An uncertainty to two significant figures (GUM 7.2.6: state uncertainties to at most two
  * significant digits), so a small U is not rounded away to "0.000".
  */
-export function formatUncertainty(value: number | null | undefined): string {
+export function formatUncertainty(value: number | null | undefined, floor?: number): string {
   if (value == null || !Number.isFinite(value)) return dash;
   if (value === 0) return "0";
+  // Below the last digit worth reading (e.g. 0.01 cent), say so rather than print noise digits.
+  if (floor !== undefined && value < floor) return `< ${floor}`;
   return Number(value.toPrecision(2)).toString();
 }

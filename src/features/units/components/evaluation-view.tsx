@@ -43,8 +43,8 @@ export function EvaluationPanel({ evaluation, pending }: { evaluation: Evaluatio
           <caption className="sr-only">Requirements as measured</caption>
           <thead className="border-b border-line-strong text-ink-soft">
             <tr>
-              {["Partial", "Measured ± U (k = 2)", "Target", "Deviation ± U", "Tolerance", "T60", "Q", "Beat", "Result"].map((h, i) => (
-                <th key={h} scope="col" className={clsx("py-2 pr-3 align-bottom font-semibold", i > 0 && i < 8 && "text-right")}>
+              {["Partial", "Measured ± U (k = 2)", "Target", "Deviation ± U", "T60", "Q", "Beat", "Result"].map((h, i) => (
+                <th key={h} scope="col" className={clsx("py-2 pr-3 align-bottom font-semibold", i > 0 && i < 7 && "text-right")}>
                   {h}
                 </th>
               ))}
@@ -76,12 +76,13 @@ function RequirementRow({ r, repeatsReason }: { r: RequirementResult; repeatsRea
         </td>
         <td className="whitespace-nowrap py-2 pr-3 text-right tabular-nums">
           {r.targetHz != null ? `${formatNumber(r.targetHz, 3)} Hz` : "—"}
-          {r.targetRatio != null ? <span className="block text-ink-faint">{formatNumber(r.targetRatio, 3)} × f₁{r.measuredRatio != null ? ` (measured ${formatNumber(r.measuredRatio, 3)})` : ""}</span> : null}
+          {r.targetRatio != null ? <span className="block text-ink-faint">{formatNumber(r.targetRatio, 3)} × f₁</span> : null}
+          {r.measuredRatio != null ? <span className="block text-ink-faint">measured {formatNumber(r.measuredRatio, 3)} ×</span> : null}
         </td>
         <td className={clsx("whitespace-nowrap py-2 pr-3 text-right tabular-nums", failed(r.pitch))}>
-          {r.deviationCents != null ? `${formatCents(r.deviationCents)} ± ${formatUncertainty(r.deviationUncertaintyCents)}` : "—"}
+          {r.deviationCents != null ? `${formatCents(r.deviationCents)} ± ${formatUncertainty(r.deviationUncertaintyCents, 0.01)}` : "—"}
+          <span className="block font-normal text-ink-faint">tolerance ± {r.toleranceCents} ¢</span>
         </td>
-        <td className="whitespace-nowrap py-2 pr-3 text-right tabular-nums">± {r.toleranceCents} ¢</td>
         <td className={clsx("whitespace-nowrap py-2 pr-3 text-right tabular-nums", failed(r.t60))}>
           {r.t60S != null ? `${formatNumber(r.t60S, 1)} s` : "—"}
           {r.minT60S != null ? <span className="block font-normal text-ink-faint">min {r.minT60S} s</span> : null}
@@ -100,7 +101,7 @@ function RequirementRow({ r, repeatsReason }: { r: RequirementResult; repeatsRea
       </tr>
       {r.note && !repeatsReason ? (
         <tr>
-          <td colSpan={9} className="pb-2 pr-3 text-ink-soft">
+          <td colSpan={8} className="pb-2 pr-3 text-ink-soft">
             {r.label}: {r.note}
           </td>
         </tr>
