@@ -178,10 +178,26 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
     chosen = two;
     kind = "doublet";
   }
-  const C = cov(chosen);
-  const p = chosen.modes.length;
+  let reported: DampedFit = chosen;
+  let C = cov(chosen);
+  if (kind === "doublet" && r.peaksHz.length === 1 && C) {
+    // The spectrum showed one peak, so a true doublet here is closer than the FFT resolves
+    // (a few Hz). A second mode further away is a weaker neighbour inside the band (hum, another
+    // partial's skirt): keep it in the model, but report only the mode at the peak, with its
+    // marginal covariance (the 4×4 block of the full one).
+    const [m0f, m1f] = chosen.modes.map((m) => band!.centreHz + m.omega / (2 * Math.PI));
+    if (Math.abs(m0f - m1f) > Math.max(8, 0.005 * centre)) {
+      const main = Math.abs(m0f - centre) <= Math.abs(m1f - centre) ? 0 : 1;
+      reported = { ...chosen, modes: [chosen.modes[main]] };
+      const sub = new Float64Array(16);
+      for (let i = 0; i < 4; i++) for (let j = 0; j < 4; j++) sub[i * 4 + j] = C[(4 * main + i) * 8 + 4 * main + j];
+      C = sub;
+      kind = "single";
+    }
+  }
+  const p = reported.modes.length;
   const np = 4 * p;
-  const modes: ModeOut[] = chosen.modes.map((m) => ({
+  const modes: ModeOut[] = reported.modes.map((m) => ({
     f: band!.centreHz + m.omega / (2 * Math.PI),
     a: band!.ampScale * Math.hypot(m.re, m.im),
     alpha: m.alpha,
