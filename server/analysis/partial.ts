@@ -80,8 +80,9 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
   const startIndex = (b: Band) => Math.max(EDGE, Math.ceil((r.fitStartSample - r.segStart) / (r.M / b.K)) + EDGE);
   const lastIndex = (b: Band) => Math.floor((r.segLen - 1) / (r.M / b.K)) - BAND_GUARD;
 
-  // Pass 1: one mode over everything at a coarse rate (about 1000 samples over the segment), to
-  // learn the decay rate, the noise level and where the partial meets the noise floor.
+  // Pass 1: a quick fit (one or two modes) over everything at a coarse rate (about 1000 samples
+  // over the segment, then every few of them), to learn the decay rate, the noise level and where
+  // the partial meets the noise floor.
   const k1 = Math.max(MIN_K, Math.min(kMax, pow2Floor((1024 * r.M) / r.segLen)));
   let band = bandAt(k1);
   if (!band) return null;
