@@ -126,4 +126,18 @@ describe("the ledger loop: maker uploads, qa disposes and releases", () => {
     expect(await page.getByRole("button", { name: "Measure next unit" }).count()).toBe(0);
     await screenshot(page, "e2e-ledger-released");
   });
+
+  it("prints as a plain ledger: no navigation or controls, a header saying what and when", async () => {
+    const { page } = browser;
+    await page.emulateMedia({ media: "print" });
+    try {
+      expect(await page.getByRole("navigation", { name: "Main" }).isVisible()).toBe(false);
+      expect(await page.getByRole("button", { name: "Print ledger" }).isVisible()).toBe(false);
+      expect(await page.getByText(/batch ledger printed .* by /).isVisible()).toBe(true);
+      expect(await page.getByRole("table", { name: "Units of the batch" }).isVisible()).toBe(true);
+      await screenshot(page, "e2e-ledger-print");
+    } finally {
+      await page.emulateMedia({ media: null });
+    }
+  });
 });

@@ -121,13 +121,15 @@ export function SpecForm({ defaultValues, mode, familyLocked, onFamilyChange, on
           error={errors.strikesRequired?.message}
           {...form.register("strikesRequired", { setValueAs: requiredNumber })}
         />
-        <SelectField label="Decision rule" error={errors.decisionRule?.message} className="lg:col-span-2" {...form.register("decisionRule")}>
-          {decisionRules.map((rule) => (
-            <option key={rule} value={rule}>
-              {decisionRuleLabels[rule]}
-            </option>
-          ))}
-        </SelectField>
+        <div className="sm:col-span-2">
+          <SelectField label="Decision rule" error={errors.decisionRule?.message} {...form.register("decisionRule")}>
+            {decisionRules.map((rule) => (
+              <option key={rule} value={rule}>
+                {decisionRuleLabels[rule]}
+              </option>
+            ))}
+          </SelectField>
+        </div>
         <InputField
           label="Vibrating length (mm, optional)"
           type="number"
@@ -165,7 +167,7 @@ export function SpecForm({ defaultValues, mode, familyLocked, onFamilyChange, on
                 <InputField label="Label" error={rowErrors?.label?.message} {...form.register(`partials.${index}.label`)} />
                 <SelectField label="Target kind" error={rowErrors?.targetKind?.message} {...form.register(`partials.${index}.targetKind`)}>
                   <option value="absolute">Absolute (Hz)</option>
-                  <option value="ratio">Ratio to the fundamental</option>
+                  <option value="ratio">Ratio to f₁</option>
                 </SelectField>
                 {kind === "absolute" ? (
                   <InputField
