@@ -53,13 +53,13 @@ function Index({ name, hint, outcome, pick }: { name: string; hint: string; outc
       <dt className="font-semibold">
         {name} <span className="block text-caption font-normal text-ink-faint">{hint}</span>
       </dt>
-      <dd className="flex flex-wrap items-center gap-2">
+      <dd className="flex flex-col items-start gap-1">
         <span className="font-mono text-title tabular-nums" data-index={name}>
           {fmt(value)}
         </span>
         {low && "indices" in outcome ? (
           <Badge tone="ochre">
-            low confidence: {outcome.indices.n} units, under {LOW_CONFIDENCE_BELOW}
+            low confidence (n = {outcome.indices.n}, under {LOW_CONFIDENCE_BELOW})
           </Badge>
         ) : null}
       </dd>

@@ -4,7 +4,7 @@ import { colours } from "../lib/colours";
 import { linearScale, niceTicks } from "../lib/scale";
 import { useElementWidth } from "../lib/use-element-width";
 
-const M = { top: 28, right: 16, bottom: 44, left: 44 };
+const M = { top: 28, right: 56, bottom: 44, left: 64 };
 
 /** A bin width of 1, 2 or 5 × 10ⁿ cents giving about `target` bins over `span`. */
 function niceWidth(span: number, target: number): number {
@@ -68,7 +68,8 @@ export function DeviationHistogram({ values, toleranceCents, height = 240 }: { v
           ? [-tol, tol].map((v) => (
               <g key={v} data-limit={v < 0 ? "lsl" : "usl"}>
                 <line x1={x(v)} x2={x(v)} y1={M.top - 6} y2={height - M.bottom} stroke={colours.spec} strokeWidth={2} />
-                <text x={x(v)} y={M.top - 10} textAnchor="middle" fontSize={11} fontWeight={600} fill={colours.spec}>
+                {/* LSL's label reads leftwards from its line, USL's rightwards, so neither covers "target". */}
+                <text x={x(v) + (v < 0 ? -4 : 4)} y={M.top - 10} textAnchor={v < 0 ? "end" : "start"} fontSize={11} fontWeight={600} fill={colours.spec}>
                   {v < 0 ? "LSL" : "USL"} {formatCents(v)}
                 </text>
               </g>

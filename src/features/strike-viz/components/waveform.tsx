@@ -143,8 +143,8 @@ export function Waveform({
           scale: "linear",
           frequencyMax: Math.min(nyquist, 12_000),
           colorMap: spectrogramColourMap,
-          // White point −10 dB, 70 dB of range: the ring shows, the room noise stays pale.
-          gainDB: 10,
+          // White point −20 dB, 70 dB of range: the ring shows, the room noise stays pale.
+          gainDB: 20,
           rangeDB: 70,
         }),
       );

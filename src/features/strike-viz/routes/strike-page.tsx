@@ -5,13 +5,14 @@
  * shows its waveform and the reason; a strike without partials says so.
  */
 import { useMemo, useState } from "react";
-import { useParams } from "react-router";
+import { Link, useParams } from "react-router";
 import type { StrikeDetail } from "@shared/schemas/strike";
 import { supportLabels } from "@shared/schemas/spec";
 import { strikeStateLabels } from "@shared/schemas/strike";
 import { Alert } from "@/components/ui/alert";
 import { Badge, EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { Spinner } from "@/components/ui/spinner";
+import { paths } from "@/config/paths";
 import { isApiError } from "@/lib/api-client";
 import { useMe } from "@/lib/auth";
 import { formatDateTime } from "@/lib/format";
@@ -67,6 +68,14 @@ function StrikeView({ workshopId, strike }: { workshopId: string; strike: Strike
 
   return (
     <div className="tl-strike-page flex flex-col gap-6">
+      <nav aria-label="Where this strike belongs" className="-mb-4 flex flex-wrap gap-x-4 text-caption">
+        <Link className="font-medium text-steel-700 underline-offset-2 hover:underline" to={paths.app.unit.getHref(strike.unit.id)}>
+          ← Unit {strike.unit.serial}
+        </Link>
+        <Link className="font-medium text-steel-700 underline-offset-2 hover:underline" to={paths.app.batch.getHref(strike.unit.batchId)}>
+          Batch {strike.unit.batchCode}
+        </Link>
+      </nav>
       <PageHeader
         title={`Strike of ${strike.unit.serial}`}
         description={

@@ -1,0 +1,203 @@
+/**
+ * The strike page in a real browser (issue 5 "Done when"): the demo maker opens a seeded strike of
+ * BTW-2611 and finds the waveform, the spectrum with its partial markers and the decay plots drawn
+ * — each canvas checked for pixels of the series' own colour, not just for axes — and the labels
+ * on the spectrum match the partials table and the API's labels. A recording that cannot be
+ * analysed shows its waveform and the reason, after the page has polled its way from "queued".
+ *
+ * Outside references: the WAV is decoded independently with the `wavefile` npm package to check
+ * the duration the player shows; the silent file for the failure case is written with it too.
+ */
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Page } from "playwright-core";
+import wavefile from "wavefile";
+import type { BatchDetail, BatchSummary } from "../../shared/schemas/batch.ts";
+import type { StrikeDetail, UnitDetail } from "../../shared/schemas/strike.ts";
+import { demo, launchBrowser, screenshot, signInThroughForm, startServer, type LaunchedBrowser, type RunningServer } from "../support/browser";
+
+const { WaveFile } = wavefile;
+
+/** GET with the page's own session cookie. */
+async function apiGet<T>(page: Page, url: string): Promise<T> {
+  return page.evaluate(async (u) => {
+    const r = await fetch(u, { credentials: "same-origin" });
+    if (!r.ok) throw new Error(`${u} answered ${r.status}`);
+    return r.json();
+  }, url) as Promise<T>;
+}
+
+/**
+ * Counts pixels on the canvases under `selector` (searching open shadow roots too, where
+ * wavesurfer draws) whose colour is within `tolerance` of one of `colours` (#rrggbb) and opaque
+ * enough to be seen. Axis text and grid use other colours, so a chart with axes but no data scores 0.
+ */
+async function colouredPixels(page: Page, selector: string, colours: string[], tolerance = 40): Promise<number> {
+  return page.evaluate(
+    ({ selector, colours, tolerance }) => {
+      const targets = colours.map((c) => [parseInt(c.slice(1, 3), 16), parseInt(c.slice(3, 5), 16), parseInt(c.slice(5, 7), 16)]);
+      const canvases: HTMLCanvasElement[] = [];
+      const collect = (root: ParentNode) => {
+        root.querySelectorAll("canvas").forEach((c) => canvases.push(c));
+        root.querySelectorAll("*").forEach((el) => {
+          if (el.shadowRoot) collect(el.shadowRoot);
+        });
+      };
+      document.querySelectorAll(selector).forEach((el) => collect(el));
+      let count = 0;
+      for (const canvas of canvases) {
+        if (!canvas.width || !canvas.height) continue;
+        const ctx = canvas.getContext("2d");
+        if (!ctx) continue;
+        const { data } = ctx.getImageData(0, 0, canvas.width, canvas.height);
+        for (let i = 0; i < data.length; i += 4) {
+          if (data[i + 3] < 128) continue;
+          for (const [r, g, b] of targets) {
+            if (Math.abs(data[i] - r) + Math.abs(data[i + 1] - g) + Math.abs(data[i + 2] - b) <= tolerance) {
+              count++;
+              break;
+            }
+          }
+        }
+      }
+      return count;
+    },
+    { selector, colours, tolerance },
+  );
+}
+
+/** Waits until `check` gives a number above zero (charts draw after the audio is decoded). */
+async function eventuallyPositive(check: () => Promise<number>, what: string, timeoutMs = 30_000): Promise<number> {
+  const deadline = Date.now() + timeoutMs;
+  let last = 0;
+  while (Date.now() < deadline) {
+    last = await check();
+    if (last > 0) return last;
+    await new Promise((r) => setTimeout(r, 250));
+  }
+  throw new Error(`${what}: no pixels of the expected colour after ${timeoutMs / 1000} s`);
+}
+
+describe("the strike page", () => {
+  let server: RunningServer;
+  let browser: LaunchedBrowser;
+  let strike: StrikeDetail;
+
+  beforeAll(async () => {
+    server = await startServer();
+    browser = await launchBrowser();
+    const { page } = browser;
+    await signInThroughForm(page, server.baseUrl, demo.maker);
+    await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
+    const { batches } = await apiGet<{ batches: BatchSummary[] }>(page, "/api/batches");
+    const btw = batches.find((b) => b.code === "BTW-2611");
+    if (!btw) throw new Error("The demo seed has no batch BTW-2611; the strike page test opens one of its strikes.");
+    const detail = await apiGet<BatchDetail>(page, `/api/batches/${btw.id}`);
+    const unit = await apiGet<UnitDetail>(page, `/api/units/${detail.rows[0].id}`);
+    // The seed analyses its strikes at start; wait for the first one to be done.
+    for (let i = 0; i < 180; i++) {
+      strike = await apiGet<StrikeDetail>(page, `/api/strikes/${unit.strikes[0].id}`);
+      if (strike.state === "done" || strike.state === "failed") break;
+      await new Promise((r) => setTimeout(r, 500));
+    }
+    expect(strike.state).toBe("done");
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    await server?.stop();
+  });
+
+  it("draws the waveform, and its length agrees with an independent decoding of the WAV", async () => {
+    const { page } = browser;
+    await page.goto(`${server.baseUrl}/strikes/${strike.id}`);
+    await page.getByRole("heading", { name: `Strike of ${strike.unit.serial}`, level: 1 }).waitFor();
+    // Play is enabled once the audio is fetched and decoded.
+    await page.locator("button:not([disabled])", { hasText: /^Play$/ }).waitFor({ timeout: 30_000 });
+    // The waveform's wave colour (#78b0b5, src/features/strike-viz/lib/colours.ts).
+    const wave = await eventuallyPositive(() => colouredPixels(page, '[data-testid="waveform"]', ["#78b0b5", "#1f5d65"]), "waveform");
+    expect(wave).toBeGreaterThan(2000);
+
+    const bytes = await page.evaluate(async (id) => {
+      const r = await fetch(`/api/strikes/${id}/audio`, { credentials: "same-origin" });
+      return Array.from(new Uint8Array(await r.arrayBuffer()));
+    }, strike.id);
+    const wav = new WaveFile(new Uint8Array(bytes));
+    const fmt = wav.fmt as { sampleRate: number; numChannels: number; bitsPerSample: number };
+    const frames = (wav.data as { chunkSize: number }).chunkSize / (fmt.numChannels * (fmt.bitsPerSample / 8));
+    const durationS = frames / fmt.sampleRate;
+    const shown = await page.getByLabel("Playback position").textContent();
+    const total = Number(/\/\s*([\d.]+) s/.exec(shown ?? "")?.[1]);
+    // The browser decodes at the file's rate; its duration matches to a millisecond.
+    expect(Math.abs(total - durationS)).toBeLessThan(0.002);
+    // The onset marker is in the page's text too.
+    await page.getByText(`Strike onsets marked at ${strike.result!.strikes[0].onsetS.toFixed(3)} s.`).waitFor();
+  });
+
+  it("draws the spectrum with a marker per partial, labelled as in the table and the API", async () => {
+    const { page } = browser;
+    const spectrum = page.locator(".tl-spectrum");
+    await spectrum.waitFor();
+    // Spectrum line (#1f5d65) and partial markers (#9c3526) must both be on the canvas.
+    expect(await eventuallyPositive(() => colouredPixels(page, ".tl-spectrum", ["#1f5d65"]), "spectrum line")).toBeGreaterThan(500);
+    expect(await colouredPixels(page, ".tl-spectrum", ["#9c3526"])).toBeGreaterThan(100);
+
+    const partials = strike.result!.strikes[0].partials;
+    const expected = partials.map((_, i) => strike.labels[i] ?? `partial ${i + 1}`);
+    const markerLabels = await spectrum.locator(".tl-marker-partial").allTextContents();
+    const tableLabels = await page.getByRole("table").filter({ hasText: "Frequency ± u" }).locator(".tl-partial-label").allTextContents();
+    expect(markerLabels).toEqual(expected);
+    expect(tableLabels).toEqual(expected);
+    expect(expected).toContain("Fundamental");
+
+    // Markers sit left to right in frequency order (partials are sorted by frequency).
+    const lefts = await spectrum.locator(".tl-marker-partial").evaluateAll((els) => els.map((e) => e.getBoundingClientRect().left + e.getBoundingClientRect().width / 2));
+    for (let i = 1; i < lefts.length; i++) expect(lefts[i]).toBeGreaterThan(lefts[i - 1]);
+
+    // Hum is marked as ignored where the analysis found it.
+    if (strike.result!.strikes[0].plot!.humHz.length) expect(await spectrum.locator(".tl-marker-hum").first().textContent()).toBe("hum (ignored)");
+
+    // The table's fundamental frequency is the API's, to the shown precision.
+    const f0 = partials[0].frequencyHz;
+    await page.getByRole("table").filter({ hasText: "Frequency ± u" }).getByText(new RegExp(`^${Math.floor(f0)}\\.\\d+ Hz`)).first().waitFor();
+  });
+
+  it("draws a decay plot per partial with its envelope and fit line", async () => {
+    const { page } = browser;
+    const decays = page.locator(".tl-decay");
+    expect(await decays.count()).toBe(strike.result!.strikes[0].partials.length);
+    // Envelope #4a8f96 and fit #9c3526 in the first decay plot.
+    const first = await eventuallyPositive(() => colouredPixels(page, ".tl-decay-item:first-of-type .tl-decay", ["#4a8f96"]), "decay envelope");
+    expect(first).toBeGreaterThan(200);
+    expect(await colouredPixels(page, ".tl-decay-item:first-of-type .tl-decay", ["#9c3526"])).toBeGreaterThan(200);
+    const p0 = strike.result!.strikes[0].partials[0];
+    await page.getByText(`Shaded: the evaluation range, ${p0.fitStartS.toFixed(2)}–${p0.fitEndS.toFixed(2)} s.`).first().waitFor();
+    await screenshot(page, "e2e-strike-page");
+  });
+
+  it("shows the waveform and the reason for a recording that could not be analysed, after polling from queued", async () => {
+    const { page } = browser;
+    const { batches } = await apiGet<{ batches: BatchSummary[] }>(page, "/api/batches");
+    const open = await apiGet<BatchDetail>(page, `/api/batches/${batches.find((b) => b.code === "BTW-2612")!.id}`);
+    // One second of digital silence, 16-bit mono 48 kHz, written by wavefile (not our encoder).
+    const silent = new WaveFile();
+    silent.fromScratch(1, 48_000, "16", new Int16Array(48_000));
+    const bytes = Array.from(silent.toBuffer());
+    const accepted = await page.evaluate(
+      async ({ unitId, bytes }) => {
+        const form = new FormData();
+        form.append("audio", new File([new Uint8Array(bytes)], "silent-take.wav", { type: "audio/wav" }));
+        const r = await fetch(`/api/units/${unitId}/strikes`, { method: "POST", body: form, credentials: "same-origin" });
+        return { status: r.status, body: await r.json() };
+      },
+      { unitId: open.rows[open.rows.length - 1].id, bytes },
+    );
+    expect(accepted.status).toBe(202);
+    await page.goto(`${server.baseUrl}/strikes/${accepted.body.id}`);
+    // Without a reload the page moves on from queued/analysing to the failure and its reason.
+    await page.getByText("This recording could not be analysed").waitFor({ timeout: 60_000 });
+    await page.getByText(/digital silence/).waitFor();
+    await page.locator('[data-testid="waveform"]').waitFor();
+    expect(await page.locator(".tl-spectrum").count()).toBe(0);
+    await screenshot(page, "e2e-strike-failed");
+  });
+});
