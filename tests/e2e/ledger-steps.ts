@@ -30,6 +30,8 @@ export async function dispose(page: Page, serial: string, decision: "use_as_is" 
   await form.getByLabel("Reason").fill(reason);
   await form.getByRole("button", { name: "Record disposition" }).click();
   await page.getByRole("list", { name: "Disposition history" }).getByText(reason).waitFor();
+  // The audit trail (qa and owner read it) records the decision too.
+  await page.getByRole("list", { name: "Unit history" }).getByText("Disposition recorded").first().waitFor();
 }
 
 /** Disposes of the two seeded nonconforming forks of BTW-2611 and releases the batch. */

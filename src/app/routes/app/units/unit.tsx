@@ -21,6 +21,7 @@ import { StrikeUpload } from "@/features/units/components/strike-upload";
 import { StrikesList } from "@/features/units/components/strikes-list";
 import { TuningGuidance } from "@/features/units/components/tuning-guidance";
 import { UnitCustomerForm } from "@/features/units/components/unit-customer-form";
+import { UnitHistory } from "@/features/units/components/unit-history";
 import { assertCan } from "@/lib/authorization";
 import { requireWorkshop } from "@/app/loaders";
 import { useSignedInMe } from "@/app/use-signed-in-me";
@@ -145,6 +146,15 @@ export function UnitRoute() {
             settingsHref={can(role, "workshop", "update") ? paths.app.settings.getHref() : undefined}
           />
         </Panel>
+
+        {can(role, "audit", "read") ? (
+          <Panel aria-labelledby="history-heading">
+            <h2 id="history-heading" className="mb-3 text-title font-semibold">
+              History
+            </h2>
+            <UnitHistory workshopId={workshopId} unitId={u.id} revision={`${evaluation?.id ?? "none"}:${u.dispositions.length}:${u.customerName ?? ""}:${u.customerEmail ?? ""}`} />
+          </Panel>
+        ) : null}
       </div>
     </>
   );

@@ -1,0 +1,45 @@
+import { verdictLabels, type Verdict } from "@shared/schemas/evaluation";
+import { dispositionLabels, type DispositionDecision } from "@shared/schemas/batch";
+import { Alert } from "@/components/ui/alert";
+import { Spinner } from "@/components/ui/spinner";
+import { formatDateTime } from "@/lib/format";
+import { useUnitHistory, type AuditEvent } from "../api/get-unit-history";
+
+const actionWords: Record<string, string> = {
+  "unit.evaluate": "Evaluated",
+  "unit.disposition": "Disposition recorded",
+  "unit.update": "Customer details changed",
+};
+
+function detail(event: AuditEvent): string | null {
+  const after = (event.after ?? {}) as Record<string, unknown>;
+  if (typeof after.verdict === "string" && after.verdict in verdictLabels) return verdictLabels[after.verdict as Verdict];
+  if (typeof after.decision === "string" && after.decision in dispositionLabels) return dispositionLabels[after.decision as DispositionDecision];
+  return null;
+}
+
+/** Who did what to this unit, newest first, from the append-only audit trail. */
+export function UnitHistory({ workshopId, unitId, revision }: { workshopId: string; unitId: string; revision: string }) {
+  const history = useUnitHistory(workshopId, unitId, revision);
+  if (history.isPending) return <Spinner label="Loading the history…" />;
+  if (history.isError) return <Alert tone="error">{history.error.message}</Alert>;
+  if (history.data.length === 0) return <p className="text-ink-soft">Nothing has happened to this unit yet beyond its creation.</p>;
+  return (
+    <ol aria-label="Unit history" className="divide-y divide-line text-caption">
+      {history.data.map((event) => {
+        const more = detail(event);
+        return (
+          <li key={event.id} className="flex flex-wrap justify-between gap-2 py-2">
+            <span>
+              <span className="font-semibold">{actionWords[event.action] ?? event.action}</span>
+              {more ? `: ${more}` : ""}
+            </span>
+            <span className="text-ink-soft">
+              {event.actor} · {formatDateTime(event.at)}
+            </span>
+          </li>
+        );
+      })}
+    </ol>
+  );
+}
