@@ -8,7 +8,7 @@
  */
 import type { BatchDetail } from "@shared/schemas/batch";
 import { individualsChartWithRules, type NelsonRuleId } from "@shared/spc";
-import { EmptyState } from "@/components/ui/panel";
+import { EmptyState, Panel } from "@/components/ui/panel";
 import { CapabilitySummary } from "./capability-summary";
 import { DeviationHistogram } from "./deviation-histogram";
 import { IndividualsChart } from "./individuals-chart";
@@ -30,7 +30,7 @@ export function BatchCharts({ batch }: { batch: BatchDetail }) {
 
   if (measured.length < 2) {
     return (
-      <section aria-labelledby="batch-charts-heading" className="tl-batch-charts">
+      <Panel aria-labelledby="batch-charts-heading" className="tl-batch-charts">
         <h2 id="batch-charts-heading" className="mb-3 text-title font-semibold">Control chart and capability</h2>
         <EmptyState title="The charts wait for at least two measured units">
           {measured.length === 0
@@ -38,7 +38,7 @@ export function BatchCharts({ batch }: { batch: BatchDetail }) {
             : `Only ${measured[0].serial} has a measured fundamental so far.`}{" "}
           A control chart needs two units to form a moving range; upload strikes for more units and the charts appear here.
         </EmptyState>
-      </section>
+      </Panel>
     );
   }
 
@@ -46,7 +46,7 @@ export function BatchCharts({ batch }: { batch: BatchDetail }) {
   const chart = individualsChartWithRules(values, BATCH_RULES);
 
   return (
-    <section aria-labelledby="batch-charts-heading" className="tl-batch-charts flex flex-col gap-6">
+    <Panel aria-labelledby="batch-charts-heading" className="tl-batch-charts flex flex-col gap-6">
       <div>
         <h2 id="batch-charts-heading" className="text-title font-semibold">Control chart of the fundamental</h2>
         <p className="mt-1 text-caption text-ink-soft">
@@ -66,6 +66,6 @@ export function BatchCharts({ batch }: { batch: BatchDetail }) {
         <DeviationHistogram values={values} toleranceCents={batch.fundamentalToleranceCents} />
         <CapabilitySummary batch={batch} deviations={values} />
       </div>
-    </section>
+    </Panel>
   );
 }

@@ -39,7 +39,7 @@ export function DeviationHistogram({ values, toleranceCents, height = 240 }: { v
           {tol ? `Spec limits ±${tol.toFixed(1)} cents around the target (from the spec version).` : "The spec version gives no tolerance for the fundamental, so no limits are drawn."} Bins of {binWidth} cents.
         </p>
       </figcaption>
-      <svg width={width} height={height} viewBox={`0 0 ${width} ${height}`} role="img" data-testid="deviation-histogram" className="tl-spc-chart block max-w-full"
+      <svg width={width} height={height} viewBox={`0 0 ${width} ${height}`} role="img" data-testid="deviation-histogram" className="tl-spc-chart block h-auto max-w-full"
         aria-label={`Histogram of ${values.length} deviations in bins of ${binWidth} cents${tol ? `, spec limits ${formatCents(-tol)} and ${formatCents(tol)}` : ""}: ${h.counts.map((c, i) => `${c} from ${h.edges[i].toFixed(1)} to ${h.edges[i + 1].toFixed(1)}`).join(", ")}`}>
         {countTicks.map((t) => (
           <g key={t}>

@@ -38,7 +38,7 @@ export function IndividualsChart({ units, chart, height = 280 }: { units: Measur
         role="group"
         aria-label={`Individuals chart of the fundamental's deviation: centre ${formatCents(chart.mean)}, upper control limit ${formatCents(chart.ucl)}, lower control limit ${formatCents(chart.lcl)}`}
         data-testid="individuals-chart"
-        className="tl-spc-chart block max-w-full"
+        className="tl-spc-chart block h-auto max-w-full"
       >
         {niceTicks(lo, hi, 6).map((t) => (
           <g key={t}>

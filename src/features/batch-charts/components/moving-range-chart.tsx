@@ -29,7 +29,7 @@ export function MovingRangeChart({ units, chart, height = 170 }: { units: Measur
         role="group"
         aria-label={`Moving-range chart: average moving range ${cents(chart.mrCentre)}, upper limit ${cents(chart.mrUcl)}`}
         data-testid="moving-range-chart"
-        className="tl-spc-chart block max-w-full"
+        className="tl-spc-chart block h-auto max-w-full"
       >
         {niceTicks(0, top, 4).map((t) => (
           <g key={t}>
