@@ -164,17 +164,17 @@ export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } =
       // Without a finite fit and covariance there is no measurement to report.
       if (![p.frequencyHz, p.tauS, p.amplitudeDb, p.frequencyUncertaintyHz, p.tauUncertaintyS].every(Number.isFinite)) continue;
       if ((p.snrDb ?? 0) < 6) continue;
-      if (p.q < MIN_Q) continue;
       // Steady tones are not the unit's partials: a struck partial decays measurably.
       const steady = !(r.alpha > 3 * r.alphaUncertainty) || r.alpha <= 0;
       const mains = humFundamental(p.frequencyHz);
       const decayDb = (20 / Math.LN10) * r.alpha * ((analysisStart + segLen) / fs - onset / fs);
       if (mains && (steady || decayDb < 3)) {
-        humSeen.add(round(p.frequencyHz, 2));
+        humSeen.add(round(p.frequencyHz, 1));
         refined.push({ r, hum: true });
         continue;
       }
       if (steady || p.tauS <= 0) continue;
+      if (p.q < MIN_Q) continue;
       refined.push({ r, hum: false });
     }
     // The same partial reached from two peaks: keep the stronger.
