@@ -9,7 +9,14 @@ import {
   temperatureCorrect,
   tuningGuidance,
   type EvaluationStrikeInput,
+  SAMPLE_CLOCK_HALF_WIDTH_PPM,
 } from "./evaluation.ts";
+
+/**
+ * Most checks below derive exact uncertainty budgets, so they run with a negligible sample-clock
+ * term; "adds the sample-clock term" checks that term on its own.
+ */
+const evaluate = (spec: SpecInput, strikes: EvaluationStrikeInput[]) => evaluateUnit(spec, strikes, { clockHalfWidthPpm: 0 });
 
 // Definitions used to derive expected numbers in this file, independently of the code under test:
 // - cents: 1200·log2(f/fref) (an octave = 1200 cents, an equal-tempered semitone = 100 cents).
@@ -136,13 +143,13 @@ describe("matchPartials", () => {
 describe("evaluateUnit: pitch, simple acceptance (ILAC-G8 §4.2.1, w = 0)", () => {
   it("passes a deviation exactly at the tolerance and fails one just over it", () => {
     const s = spec([fundamental({ toleranceCents: 5 })]);
-    const atEdge = evaluateUnit(s, [strike([partial(atCents(440, 5))])]);
+    const atEdge = evaluate(s, [strike([partial(atCents(440, 5))])]);
     expect(atEdge.requirements[0].deviationCents).toBeCloseTo(5, 9);
     expect(atEdge.requirements[0].pitch).toBe("pass");
     expect(atEdge.verdict).toBe("within_tolerance");
-    expect(evaluateUnit(s, [strike([partial(atCents(440, -5))])]).verdict).toBe("within_tolerance");
+    expect(evaluate(s, [strike([partial(atCents(440, -5))])]).verdict).toBe("within_tolerance");
 
-    const over = evaluateUnit(s, [strike([partial(atCents(440, -5.01))])]);
+    const over = evaluate(s, [strike([partial(atCents(440, -5.01))])]);
     expect(over.requirements[0].pitch).toBe("fail");
     expect(over.verdict).toBe("out_of_tolerance");
     expect(over.reasons.join(" ")).toContain("5.0 cents flat of 440.00 Hz (tolerance ±5 cents)");
@@ -150,7 +157,7 @@ describe("evaluateUnit: pitch, simple acceptance (ILAC-G8 §4.2.1, w = 0)", () =
 
   it("decides by the value alone, however large U is", () => {
     const f = atCents(440, 4);
-    const r = evaluateUnit(spec([fundamental()]), [strike([partial(f, { frequencyUncertaintyHz: uHzForExpandedCents(f, 3) })])]);
+    const r = evaluate(spec([fundamental()]), [strike([partial(f, { frequencyUncertaintyHz: uHzForExpandedCents(f, 3) })])]);
     expect(r.requirements[0].deviationUncertaintyCents).toBeCloseTo(3, 9);
     expect(r.requirements[0].pitch).toBe("pass");
   });
@@ -161,7 +168,7 @@ describe("evaluateUnit: pitch, guarded acceptance (ILAC-G8 §4.2.2, w = U)", () 
   // One strike, no temperature: u_c = u_fit, so U = 2 cents exactly when u = (U/2)·f·ln2/1200.
   const run = (dev: number) => {
     const f = atCents(440, dev);
-    return evaluateUnit(s, [strike([partial(f, { frequencyUncertaintyHz: uHzForExpandedCents(f, 2) })])]);
+    return evaluate(s, [strike([partial(f, { frequencyUncertaintyHz: uHzForExpandedCents(f, 2) })])]);
   };
 
   it("passes when |dev| + U ≤ tol, including the edge 3 + 2 = 5 cents", () => {
@@ -191,7 +198,7 @@ describe("evaluateUnit: combining strikes (median, spread, GUM uncertainty)", ()
     const fs = [439.0, 441.0, 440.5];
     const us = [0.01, 0.03, 0.02];
     const s = spec([fundamental({ toleranceCents: 10 })], { strikesRequired: 3 });
-    const r = evaluateUnit(s, fs.map((f, i) => strike([partial(f, { frequencyUncertaintyHz: us[i] })])));
+    const r = evaluate(s, fs.map((f, i) => strike([partial(f, { frequencyUncertaintyHz: us[i] })])));
     const line = r.requirements[0];
     expect(line.measuredHz).toBeCloseTo(440.5, 12);
     expect(line.spreadCents).toBeCloseTo(centsOf(441, 439), 10); // ≈ 7.87 cents
@@ -209,14 +216,14 @@ describe("evaluateUnit: combining strikes (median, spread, GUM uncertainty)", ()
 
   it("takes the mean of the two middle strikes for an even count", () => {
     const s = spec([fundamental({ toleranceCents: 10 })], { strikesRequired: 4 });
-    const r = evaluateUnit(s, [439, 440, 441, 440.2].map((f) => strike([partial(f)])));
+    const r = evaluate(s, [439, 440, 441, 440.2].map((f) => strike([partial(f)])));
     expect(r.requirements[0].measuredHz).toBeCloseTo(440.1, 12);
   });
 
   it("corrects each strike to the reference temperature and adds u_temp = |α|·f·(0.5 °C/√3)", () => {
     const s = spec([fundamental()], { tempCoefficientPerC: -1e-4, referenceTemperatureC: 20 });
     // At 30 °C a steel fork that is exactly 440 Hz at 20 °C rings at 440·(1 − 0.001) = 439.56 Hz.
-    const r = evaluateUnit(s, [strike([partial(440 * 0.999, { frequencyUncertaintyHz: 0.01 })], 30)]);
+    const r = evaluate(s, [strike([partial(440 * 0.999, { frequencyUncertaintyHz: 0.01 })], 30)]);
     const line = r.requirements[0];
     expect(r.temperatureCorrected).toBe(true);
     expect(line.measuredHz).toBeCloseTo(440, 10);
@@ -225,7 +232,7 @@ describe("evaluateUnit: combining strikes (median, spread, GUM uncertainty)", ()
     const uFit = 0.01 / 0.999; // the fit uncertainty scales with the correction factor
     expect(line.uncertaintyHz).toBeCloseTo(Math.sqrt(uFit ** 2 + uTemp ** 2), 10);
     // Without a temperature nothing is corrected and there is no u_temp.
-    const raw = evaluateUnit(s, [strike([partial(440 * 0.999, { frequencyUncertaintyHz: 0.01 })])]);
+    const raw = evaluate(s, [strike([partial(440 * 0.999, { frequencyUncertaintyHz: 0.01 })])]);
     expect(raw.temperatureCorrected).toBe(false);
     expect(raw.requirements[0].deviationCents).toBeCloseTo(centsOf(439.56, 440), 9); // ≈ −1.73 cents
     expect(raw.requirements[0].uncertaintyHz).toBeCloseTo(0.01, 12);
@@ -237,7 +244,7 @@ describe("evaluateUnit: ratio targets", () => {
     const s = spec([fundamental(), overtone(2.757, { toleranceCents: 15 })]);
     const f1 = 440;
     const f2 = 440 * 2.757 * 2 ** (-20 / 1200); // ratio 20 cents below target
-    const r = evaluateUnit(s, [strike([partial(f1, { frequencyUncertaintyHz: f1 * 1e-4 }), partial(f2, { frequencyUncertaintyHz: f2 * 2e-4 })])]);
+    const r = evaluate(s, [strike([partial(f1, { frequencyUncertaintyHz: f1 * 1e-4 }), partial(f2, { frequencyUncertaintyHz: f2 * 2e-4 })])]);
     const line = r.requirements[1];
     expect(line.measuredRatio).toBeCloseTo(2.757 * 2 ** (-20 / 1200), 10);
     expect(line.targetRatio).toBe(2.757);
@@ -252,7 +259,7 @@ describe("evaluateUnit: ratio targets", () => {
 
   it("passes a right ratio on a mistuned fundamental (the ratio follows the measured fundamental)", () => {
     const s = spec([fundamental(), overtone(2.757)]);
-    const r = evaluateUnit(s, [strike([partial(430), partial(430 * 2.757 * 2 ** (10 / 1200))])]);
+    const r = evaluate(s, [strike([partial(430), partial(430 * 2.757 * 2 ** (10 / 1200))])]);
     expect(r.requirements[1].deviationCents).toBeCloseTo(10, 9);
     expect(r.requirements[1].pitch).toBe("pass");
     expect(r.requirements[0].pitch).toBe("fail");
@@ -260,7 +267,7 @@ describe("evaluateUnit: ratio targets", () => {
 
   it("cancels the temperature in a ratio, and gives the ratio of an absolute overtone for the ledger", () => {
     const s = spec([fundamental(), overtone(6.267, { toleranceCents: 100 }), { label: "Hum", targetKind: "absolute", targetHz: 220, toleranceCents: 20, required: false }]);
-    const r = evaluateUnit(s, [strike([partial(219), partial(440), partial(440 * 6)], 35)]);
+    const r = evaluate(s, [strike([partial(219), partial(440), partial(440 * 6)], 35)]);
     expect(r.requirements[1].measuredRatio).toBeCloseTo(6, 12);
     expect(r.requirements[1].deviationCents).toBeCloseTo(centsOf(6, 6.267), 9); // ≈ −75 cents
     expect(r.requirements[2].measuredRatio).toBeCloseTo(219 / 440, 12);
@@ -270,36 +277,36 @@ describe("evaluateUnit: ratio targets", () => {
 describe("evaluateUnit: strikes required and missing partials", () => {
   it("is inconclusive with too few strikes, saying how many", () => {
     const s = spec([fundamental()], { strikesRequired: 3 });
-    const r = evaluateUnit(s, [strike([partial(440)]), strike([partial(440.1)])]);
+    const r = evaluate(s, [strike([partial(440)]), strike([partial(440.1)])]);
     expect(r.verdict).toBe("inconclusive");
     expect(r.reasons[0]).toBe("2 of 3 strikes measured: record 1 more strike of this unit.");
     expect(r.requirements[0].pitch).toBe("pass");
     // A failing line is still reported while strikes are missing.
-    const bad = evaluateUnit(s, [strike([partial(450)])]);
+    const bad = evaluate(s, [strike([partial(450)])]);
     expect(bad.verdict).toBe("inconclusive");
     expect(bad.reasons[0]).toContain("1 of 3 strikes measured");
     expect(bad.reasons[1]).toContain("Fundamental:");
-    const none = evaluateUnit(s, []);
+    const none = evaluate(s, []);
     expect(none.verdict).toBe("inconclusive");
     expect(none.requirements[0].result).toBe("not_checked");
     expect(none.reasons).toEqual(["0 of 3 strikes measured: record 3 more strikes of this unit."]);
   });
 
   it("fails a required partial that is not found, and ignores a missing optional one", () => {
-    const required = evaluateUnit(spec([fundamental(), overtone(2.757)]), [strike([partial(440)])]);
+    const required = evaluate(spec([fundamental(), overtone(2.757)]), [strike([partial(440)])]);
     expect(required.requirements[1].pitch).toBe("not_found");
     expect(required.requirements[1].result).toBe("fail");
     expect(required.requirements[1].note).toContain("Not found");
     expect(required.verdict).toBe("out_of_tolerance");
 
-    const optional = evaluateUnit(spec([fundamental(), overtone(2.757, { required: false })]), [strike([partial(440)])]);
+    const optional = evaluate(spec([fundamental(), overtone(2.757, { required: false })]), [strike([partial(440)])]);
     expect(optional.requirements[1].result).toBe("not_found");
     expect(optional.verdict).toBe("within_tolerance");
   });
 
   it("fails a required partial missing from one of three strikes, naming the strike", () => {
     const s = spec([fundamental(), overtone(2.757)], { strikesRequired: 3 });
-    const r = evaluateUnit(s, [strike([partial(440), partial(440 * 2.757)]), strike([partial(440)]), strike([partial(440), partial(440 * 2.757)])]);
+    const r = evaluate(s, [strike([partial(440), partial(440 * 2.757)]), strike([partial(440)]), strike([partial(440), partial(440 * 2.757)])]);
     expect(r.requirements[1].result).toBe("fail");
     expect(r.requirements[1].pitch).toBe("pass");
     expect(r.requirements[1].note).toContain("Not found in strike 2 of 3");
@@ -307,7 +314,7 @@ describe("evaluateUnit: strikes required and missing partials", () => {
   });
 
   it("reports an optional line out of tolerance without letting it decide", () => {
-    const r = evaluateUnit(spec([fundamental(), overtone(2.757, { required: false })]), [strike([partial(440), partial(440 * 2.757 * 2 ** (40 / 1200))])]);
+    const r = evaluate(spec([fundamental(), overtone(2.757, { required: false })]), [strike([partial(440), partial(440 * 2.757 * 2 ** (40 / 1200))])]);
     expect(r.requirements[1].result).toBe("fail");
     expect(r.verdict).toBe("within_tolerance");
     expect(r.reasons.join(" ")).toContain("does not affect the verdict");
@@ -319,10 +326,10 @@ describe("evaluateUnit: decay and beat checks", () => {
 
   it("checks T60 = τ·ln1000 against a minimum", () => {
     const s = spec([fundamental({ minT60S: 5 })]);
-    const pass = evaluateUnit(s, [strike([partial(440, { tauS: 1 })])]); // T60 = 6.91 s
+    const pass = evaluate(s, [strike([partial(440, { tauS: 1 })])]); // T60 = 6.91 s
     expect(pass.requirements[0].t60S).toBeCloseTo(ln1000, 12);
     expect(pass.requirements[0].t60).toBe("pass");
-    const fail = evaluateUnit(s, [strike([partial(440, { tauS: 0.5 })])]); // T60 = 3.45 s
+    const fail = evaluate(s, [strike([partial(440, { tauS: 0.5 })])]); // T60 = 3.45 s
     expect(fail.requirements[0].t60).toBe("fail");
     expect(fail.verdict).toBe("out_of_tolerance");
     expect(fail.reasons.join(" ")).toContain("T60 3.45 s is below the minimum 5.00 s");
@@ -330,16 +337,16 @@ describe("evaluateUnit: decay and beat checks", () => {
 
   it("applies the guard band to T60, with U from tauUncertaintyS·ln1000 (k = 2)", () => {
     const partials = [partial(440, { tauS: 0.75, tauUncertaintyS: 0.02 })]; // T60 5.18 s, U = 2·0.02·ln1000 = 0.276 s
-    const guarded = evaluateUnit(spec([fundamental({ minT60S: 5 })], { decisionRule: "guarded" }), [strike(partials)]);
+    const guarded = evaluate(spec([fundamental({ minT60S: 5 })], { decisionRule: "guarded" }), [strike(partials)]);
     expect(guarded.requirements[0].t60UncertaintyS).toBeCloseTo(2 * 0.02 * ln1000, 12);
     expect(guarded.requirements[0].t60).toBe("inconclusive");
     expect(guarded.verdict).toBe("inconclusive");
-    expect(evaluateUnit(spec([fundamental({ minT60S: 5 })]), [strike(partials)]).requirements[0].t60).toBe("pass");
+    expect(evaluate(spec([fundamental({ minT60S: 5 })]), [strike(partials)]).requirements[0].t60).toBe("pass");
   });
 
   it("makes T60 and Q inconclusive when τ is unreliable, asking for a longer recording", () => {
     const s = spec([fundamental({ minT60S: 5, minQ: 1000 })]);
-    const r = evaluateUnit(s, [strike([partial(440, { tauS: 20, tauUnreliable: true })])]);
+    const r = evaluate(s, [strike([partial(440, { tauS: 20, tauUnreliable: true })])]);
     expect(r.requirements[0].t60).toBe("inconclusive");
     expect(r.requirements[0].qResult).toBe("inconclusive");
     expect(r.requirements[0].pitch).toBe("pass");
@@ -349,25 +356,25 @@ describe("evaluateUnit: decay and beat checks", () => {
 
   it("checks Q = π·f·τ against a minimum", () => {
     // π·440·1 s = 1382.3
-    const r = evaluateUnit(spec([fundamental({ minQ: 1000 })]), [strike([partial(440, { tauS: 1 })])]);
+    const r = evaluate(spec([fundamental({ minQ: 1000 })]), [strike([partial(440, { tauS: 1 })])]);
     expect(r.requirements[0].q).toBeCloseTo(Math.PI * 440, 9);
     expect(r.requirements[0].qResult).toBe("pass");
-    expect(evaluateUnit(spec([fundamental({ minQ: 1400 })]), [strike([partial(440, { tauS: 1 })])]).requirements[0].qResult).toBe("fail");
+    expect(evaluate(spec([fundamental({ minQ: 1400 })]), [strike([partial(440, { tauS: 1 })])]).requirements[0].qResult).toBe("fail");
   });
 
   it("counts a missing beat as 0 Hz and fails a beat over the maximum", () => {
     const s = spec([fundamental({ maxBeatHz: 0.5 })]);
-    const single = evaluateUnit(s, [strike([partial(440)])]);
+    const single = evaluate(s, [strike([partial(440)])]);
     expect(single.requirements[0].beat).toBe("pass");
     expect(single.requirements[0].beatHz).toBeNull();
-    const beating = evaluateUnit(s, [strike([partial(440, { beatHz: 1.2 })])]);
+    const beating = evaluate(s, [strike([partial(440, { beatHz: 1.2 })])]);
     expect(beating.requirements[0].beatHz).toBeCloseTo(1.2, 12);
     expect(beating.requirements[0].beat).toBe("fail");
     expect(beating.verdict).toBe("out_of_tolerance");
   });
 
   it("leaves checks without a limit as not checked", () => {
-    const r = evaluateUnit(spec([fundamental()]), [strike([partial(440)])]);
+    const r = evaluate(spec([fundamental()]), [strike([partial(440)])]);
     expect([r.requirements[0].t60, r.requirements[0].qResult, r.requirements[0].beat]).toEqual(["not_checked", "not_checked", "not_checked"]);
     expect(r.requirements[0].result).toBe("pass");
     expect(r.reasons).toEqual(["Every required partial is within its limits."]);
@@ -379,7 +386,7 @@ describe("evaluateUnit: labels for the strike page", () => {
     const s = spec([fundamental(), overtone(6.267, { label: "First overtone", toleranceCents: 100 })]);
     const a: EvaluationStrikeInput = { strikeId: "rec-1", segment: 0, temperatureC: null, partials: [partial(120), partial(440.2), partial(2650)] };
     const b: EvaluationStrikeInput = { strikeId: "rec-1", segment: 1, temperatureC: null, partials: [partial(439.9)] };
-    const r = evaluateUnit(s, [a, b]);
+    const r = evaluate(s, [a, b]);
     expect(r.labels).toEqual([
       { strikeId: "rec-1", segment: 0, labels: { 1: "Fundamental", 2: "First overtone" } },
       { strikeId: "rec-1", segment: 1, labels: { 0: "Fundamental" } },
@@ -390,7 +397,7 @@ describe("evaluateUnit: labels for the strike page", () => {
 describe("tuningGuidance", () => {
   it("tells a flat fork to be raised by grinding the tine ends, with the f ∝ 1/L² length estimate", () => {
     const s = spec([fundamental()], { lengthMm: 80 });
-    const r = evaluateUnit(s, [strike([partial(430)])]);
+    const r = evaluate(s, [strike([partial(430)])]);
     const g = r.guidance!;
     expect(g.direction).toBe("raise");
     expect(g.cents).toBeCloseTo(Math.abs(centsOf(430, 440)), 1); // 39.8 cents
@@ -406,26 +413,26 @@ describe("tuningGuidance", () => {
   });
 
   it("tells a sharp fork to be lowered by thinning near the crotch, without a length estimate", () => {
-    const g = evaluateUnit(spec([fundamental()], { lengthMm: 80 }), [strike([partial(450)])]).guidance!;
+    const g = evaluate(spec([fundamental()], { lengthMm: 80 }), [strike([partial(450)])]).guidance!;
     expect(g.direction).toBe("lower");
     expect(g.remedy).toContain("near the crotch");
     expect(g.estimate).toBeNull();
   });
 
   it("gives no guidance within tolerance, nor for an inconclusive pitch", () => {
-    expect(evaluateUnit(spec([fundamental()]), [strike([partial(440.5)])]).guidance).toBeNull();
+    expect(evaluate(spec([fundamental()]), [strike([partial(440.5)])]).guidance).toBeNull();
     const f = atCents(440, 4);
-    const guarded = evaluateUnit(spec([fundamental()], { decisionRule: "guarded" }), [strike([partial(f, { frequencyUncertaintyHz: uHzForExpandedCents(f, 2) })])]);
+    const guarded = evaluate(spec([fundamental()], { decisionRule: "guarded" }), [strike([partial(f, { frequencyUncertaintyHz: uHzForExpandedCents(f, 2) })])]);
     expect(guarded.guidance).toBeNull();
   });
 
   it("uses each family's remedy, and no beam estimate for bells and bowls", () => {
-    const line = evaluateUnit(spec([fundamental()]), [strike([partial(430)])]).requirements[0];
+    const line = evaluate(spec([fundamental()]), [strike([partial(430)])]).requirements[0];
     const bar = tuningGuidance(spec([fundamental()], { family: "free_bar", lengthMm: 300 }), line)!;
     expect(bar.remedy).toContain("ends of the bar");
     expect(bar.estimate).toContain("shared between the two ends");
     expect(bar.caution).not.toContain("clinical");
-    const sharp = evaluateUnit(spec([fundamental()]), [strike([partial(450)])]).requirements[0];
+    const sharp = evaluate(spec([fundamental()]), [strike([partial(450)])]).requirements[0];
     expect(tuningGuidance(spec([fundamental()], { family: "free_bar" }), sharp)!.remedy).toContain("underside of the bar at its middle");
     expect(tuningGuidance(spec([fundamental()], { family: "tube", lengthMm: 500 }), line)!.remedy).toContain("Shorten the tube");
     const bell = tuningGuidance(spec([fundamental()], { family: "handbell", lengthMm: 100 }), sharp)!;
@@ -440,13 +447,25 @@ describe("bad input", () => {
   it("refuses a ratio target without a fundamental, naming the partial", () => {
     const s = { ...spec([fundamental(), overtone(2.757)]) };
     s.partials = s.partials.map((p) => ({ ...p, isFundamental: false }));
-    expect(() => evaluateUnit(s, [])).toThrow(EvaluationInputError);
-    expect(() => evaluateUnit(s, [])).toThrow('Partial "Overtone" is a ratio to the fundamental, but no other partial is marked as the fundamental; mark one.');
+    expect(() => evaluate(s, [])).toThrow(EvaluationInputError);
+    expect(() => evaluate(s, [])).toThrow('Partial "Overtone" is a ratio to the fundamental, but no other partial is marked as the fundamental; mark one.');
   });
 
   it("refuses a non-finite temperature or measured value", () => {
     const s = spec([fundamental()]);
-    expect(() => evaluateUnit(s, [{ strikeId: "x", segment: 2, temperatureC: Number.NaN, partials: [] }])).toThrow("Strike x (segment 2) has temperature NaN");
-    expect(() => evaluateUnit(s, [strike([partial(440, { frequencyUncertaintyHz: Number.NaN })])])).toThrow("frequencyUncertaintyHz = NaN");
+    expect(() => evaluate(s, [{ strikeId: "x", segment: 2, temperatureC: Number.NaN, partials: [] }])).toThrow("Strike x (segment 2) has temperature NaN");
+    expect(() => evaluate(s, [strike([partial(440, { frequencyUncertaintyHz: Number.NaN })])])).toThrow("frequencyUncertaintyHz = NaN");
+  });
+});
+
+describe("sample clock", () => {
+  it("adds the sample-clock term u = f·(50 ppm)/√3 (GUM §4.3.7, rectangular) to absolute frequencies", () => {
+    const s = spec([fundamental()]);
+    const f = 440;
+    const without = evaluate(s, [strike([partial(f, { frequencyUncertaintyHz: 0.001 })])]).requirements[0];
+    const withClock = evaluateUnit(s, [strike([partial(f, { frequencyUncertaintyHz: 0.001 })])]).requirements[0];
+    const uClock = (f * SAMPLE_CLOCK_HALF_WIDTH_PPM * 1e-6) / Math.sqrt(3);
+    expect(without.uncertaintyHz).toBeCloseTo(0.001, 12);
+    expect(withClock.uncertaintyHz).toBeCloseTo(Math.hypot(0.001, uClock), 12);
   });
 });

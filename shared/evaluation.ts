@@ -47,6 +47,21 @@ export const THERMOMETER_HALF_WIDTH_C = 0.5;
 export const THERMOMETER_STANDARD_UNCERTAINTY_C = THERMOMETER_HALF_WIDTH_C / Math.sqrt(3);
 
 /**
+ * Half-width of the recording device's sample-clock error, parts per million. ASSUMPTION (from
+ * memory, common practice, no published source): the crystal of an uncalibrated audio interface is
+ * good to about ±50 ppm; taken as rectangular (GUM §4.3.7). Every frequency scales with the clock, so
+ * this term is added to absolute frequencies; ratios between partials of one recording cancel it.
+ * A workshop that calibrates its interface against a reference tone can lower it.
+ */
+export const SAMPLE_CLOCK_HALF_WIDTH_PPM = 50;
+
+export type EvaluationOptions = {
+  /** Half-width of the sample-clock error, ppm (rectangular); 0 for a clock calibrated to negligible error. */
+  clockHalfWidthPpm: number;
+};
+export const defaultEvaluationOptions: EvaluationOptions = { clockHalfWidthPpm: SAMPLE_CLOCK_HALF_WIDTH_PPM };
+
+/**
  * Search window for matching a measured partial to a requirement, cents either side of the
  * expected frequency: 3 × the tolerance, at least 150 cents, at most 600 cents.
  * - Wider than the tolerance, so a unit well out of tolerance is still matched and reported as
@@ -304,13 +319,14 @@ function observe(spec: SpecInput, strikes: EvaluationStrikeInput[], matches: (nu
 
 type Frequency = { measuredHz: number; spreadCents: number; uncertaintyHz: number; expandedHz: number };
 
-function combineFrequency(spec: SpecInput, obs: Observation[]): Frequency {
+function combineFrequency(spec: SpecInput, obs: Observation[], opts: EvaluationOptions): Frequency {
   const fs = obs.map((o) => o.fHz);
   const measuredHz = median(fs);
   // u_temp = |α|·f·u_T: the sensitivity of f_ref to the temperature reading (GUM §5.1.3), only
   // when a temperature was given and used for a correction.
   const uTemp = obs.some((o) => o.hasTemperature) ? Math.abs(spec.tempCoefficientPerC) * measuredHz * THERMOMETER_STANDARD_UNCERTAINTY_C : 0;
-  const uncertaintyHz = combinedUncertainty(fs, obs.map((o) => o.uHz), uTemp);
+  const uClock = (measuredHz * opts.clockHalfWidthPpm * 1e-6) / Math.sqrt(3);
+  const uncertaintyHz = combinedUncertainty(fs, obs.map((o) => o.uHz), Math.hypot(uTemp, uClock));
   return { measuredHz, spreadCents: cents(Math.max(...fs), Math.min(...fs)), uncertaintyHz, expandedHz: COVERAGE_FACTOR * uncertaintyHz };
 }
 
@@ -353,6 +369,7 @@ function evaluateLine(
   p: SpecPartial,
   all: (Observation | null)[],
   fundamental: { line: Line; obs: (Observation | null)[] } | null,
+  opts: EvaluationOptions,
 ): Line {
   const line = emptyLine(p);
   const n = all.length;
@@ -374,7 +391,7 @@ function evaluateLine(
   }
 
   // Frequency, temperature-corrected and combined across strikes.
-  const freq = combineFrequency(spec, obs);
+  const freq = combineFrequency(spec, obs, opts);
   line.measuredHz = freq.measuredHz;
   line.spreadCents = freq.spreadCents;
   line.uncertaintyHz = freq.uncertaintyHz;
@@ -503,7 +520,7 @@ function evaluateLine(
  *
  * @throws EvaluationInputError for a spec that cannot be evaluated or a non-finite measured value.
  */
-export function evaluateUnit(spec: SpecInput, strikes: EvaluationStrikeInput[]): UnitEvaluation {
+export function evaluateUnit(spec: SpecInput, strikes: EvaluationStrikeInput[], opts: EvaluationOptions = defaultEvaluationOptions): UnitEvaluation {
   checkSpec(spec);
   strikes.forEach((s) => {
     if (s.temperatureC !== null && !Number.isFinite(s.temperatureC)) {
@@ -516,11 +533,11 @@ export function evaluateUnit(spec: SpecInput, strikes: EvaluationStrikeInput[]):
   const lines: Line[] = new Array(spec.partials.length);
   let fundamental: { line: Line; obs: (Observation | null)[] } | null = null;
   if (fi >= 0) {
-    lines[fi] = evaluateLine(spec, spec.partials[fi], observations[fi], null);
+    lines[fi] = evaluateLine(spec, spec.partials[fi], observations[fi], null, opts);
     fundamental = { line: lines[fi], obs: observations[fi] };
   }
   spec.partials.forEach((p, i) => {
-    if (i !== fi) lines[i] = evaluateLine(spec, p, observations[i], fundamental);
+    if (i !== fi) lines[i] = evaluateLine(spec, p, observations[i], fundamental, opts);
   });
 
   const reasons: string[] = [];
