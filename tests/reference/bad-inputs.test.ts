@@ -3,7 +3,7 @@
  * message, or warn and still analyse).
  */
 import { describe, expect, it } from "vitest";
-import { AnalysisInputError, analyzeWav } from "../../server/analysis/index";
+import { AnalysisInputError, analyzeWav, readWavHeader } from "../../server/analysis/index";
 import { analyze, analyzeSynth, cents, encodeWav, nearest, soxWrite, synthWav } from "./helpers";
 
 function failure(bytes: Uint8Array): AnalysisInputError {
@@ -124,5 +124,30 @@ describe("files that are analysed with a warning", () => {
     const b = synthWav({ ...strike, seed: 10, strikes: [{ onsetS: 0.1, modes: [{ frequencyHz: 1990, amplitude: 0.3, tauS: 0.4 }] }] }, { bits: 16 }).samples;
     const r = analyze(encodeWav([a, b], 48000, { bits: 16 }));
     expect(r.warnings.find((w) => w.code === "channels_disagree")?.message).toMatch(/channels differ.*mix was analysed/);
+  });
+});
+
+describe("readWavHeader refuses the same files early, from their first bytes", () => {
+  const headerFailure = (bytes: Uint8Array, fileSize?: number) => {
+    try {
+      readWavHeader(bytes, fileSize === undefined ? undefined : { fileSize });
+    } catch (e) {
+      if (e instanceof AnalysisInputError) return e.code;
+      throw e;
+    }
+    return "accepted";
+  };
+  it("text, A-law, zero channels and a truncated data chunk (when the file size is given)", () => {
+    expect(headerFailure(new TextEncoder().encode("just some notes about fork 7\n"))).toBe("not_wav");
+    const alaw = encodeWav([new Float64Array(100)], 8000, { bits: 8 });
+    new DataView(alaw.buffer).setUint16(20, 6, true);
+    expect(headerFailure(alaw.subarray(0, 64))).toBe("unsupported_encoding");
+    const zero = encodeWav([new Float64Array(100)], 48000, { bits: 16 });
+    new DataView(zero.buffer).setUint16(22, 0, true);
+    expect(headerFailure(zero.subarray(0, 64))).toBe("bad_format");
+    const { bytes } = synthWav(strike, { bits: 16 });
+    expect(headerFailure(bytes.subarray(0, 64))).toBe("accepted");
+    expect(headerFailure(bytes.subarray(0, 64), bytes.length - 1000)).toBe("truncated");
+    expect(headerFailure(encodeWav([new Float64Array(0)], 48000, { bits: 16 }))).toBe("no_audio");
   });
 });

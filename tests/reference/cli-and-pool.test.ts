@@ -95,6 +95,11 @@ describe("analysis pool", () => {
       expect(err.message).toMatch(/This file is text/);
       const plotted = await pool.analyzeFile(files["fork-a4-24bit-48k.wav"], { plot: true });
       expect(plotted.strikes[0].plot?.envelopes).toHaveLength(plotted.strikes[0].partials.length);
+      // A stored file that has gone missing is the server's problem, not the maker's: a plain Error.
+      const missing = await pool.analyzeFile(join(dir, "no-such-file.wav")).catch((e) => e);
+      expect(missing).toBeInstanceOf(Error);
+      expect(missing).not.toBeInstanceOf(AnalysisInputError);
+      expect(missing.message).toMatch(/stored recording could not be read/);
       expect(pool.queued).toBe(0);
       expect(pool.running).toBe(0);
     } finally {
