@@ -34,7 +34,7 @@ export function CapabilitySummary({ batch, deviations }: { batch: BatchDetail; d
     <section aria-labelledby="capability-heading" className="tl-capability">
       <h3 id="capability-heading" className="text-body font-semibold">Capability</h3>
       <p className="text-caption text-ink-soft">σ̂ from the moving ranges (MR̄/1.128). 1.33 or more is the usual aim (common practice, no single published source).</p>
-      <dl className="mt-3 grid grid-cols-[auto_1fr] items-baseline gap-x-4 gap-y-2" data-testid="capability">
+      <dl className="mt-3 flex flex-col gap-2" data-testid="capability">
         <Index name="Cp" hint={`deviation against ±${tol ?? "?"} cents`} outcome={pitch} pick={(i) => i.cp} />
         <Index name="Cpk" hint="deviation, nearer limit" outcome={pitch} pick={(i) => i.cpk} />
         <Index name="Cpl" hint={`log T60 against ${batch.minT60S ?? "?"} s minimum`} outcome={decay} pick={(i) => i.cpl} />
@@ -49,20 +49,19 @@ function Index({ name, hint, outcome, pick }: { name: string; hint: string; outc
   const value = "indices" in outcome ? pick(outcome.indices) : null;
   const low = "indices" in outcome && outcome.indices.lowConfidence;
   return (
-    <>
-      <dt className="font-semibold">
-        {name} <span className="block text-caption font-normal text-ink-faint">{hint}</span>
-      </dt>
-      <dd className="flex flex-col items-start gap-1">
-        <span className="font-mono text-title tabular-nums" data-index={name}>
-          {fmt(value)}
-        </span>
-        {low && "indices" in outcome ? (
+    <div className="grid grid-cols-[1fr_auto] items-baseline gap-x-3 border-b border-line pb-2 last:border-b-0">
+      <dt className="font-semibold">{name}</dt>
+      <dd className="font-mono text-title tabular-nums" data-index={name}>
+        {fmt(value)}
+      </dd>
+      <dd className="col-span-2 text-caption text-ink-faint">{hint}</dd>
+      {low && "indices" in outcome ? (
+        <dd className="col-span-2 mt-1">
           <Badge tone="ochre">
             low confidence (n = {outcome.indices.n}, under {LOW_CONFIDENCE_BELOW})
           </Badge>
-        ) : null}
-      </dd>
-    </>
+        </dd>
+      ) : null}
+    </div>
   );
 }

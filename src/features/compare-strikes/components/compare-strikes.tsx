@@ -6,6 +6,7 @@
 import { useMemo, useState } from "react";
 import uPlot from "uplot";
 import type { StrikeDetail, UnitDetail } from "@shared/schemas/strike";
+import { cents } from "@shared/physics";
 import { supportLabels } from "@shared/schemas/spec";
 import { Alert } from "@/components/ui/alert";
 import { EmptyState } from "@/components/ui/panel";
@@ -94,7 +95,8 @@ function CompareView({ strikes, fundamentalLabel }: { strikes: ComparedStrike[];
     const data = uPlot.join(tables);
     const xs = data[0] as number[];
     const options: ChartOptions = {
-      scales: { x: { time: false, distr: 3, log: 10, range: [xs[0], xs[xs.length - 1]] } },
+      // Log axis from 10 Hz (mains hum at 50/60 Hz stays in view; below 10 Hz is room rumble).
+      scales: { x: { time: false, distr: 3, log: 10, range: [Math.max(10, xs[0] ?? 10), xs[xs.length - 1] ?? 20_000] } },
       axes: [
         { ...axis, label: "Frequency (Hz)", values: (_u, vals) => vals.map((v) => (v == null ? "" : v >= 1000 ? `${+(v / 1000).toFixed(2)}k` : `${+v.toFixed(0)}`)) },
         { ...axis, label: "Magnitude (dBFS)", size: 56 },
@@ -166,7 +168,7 @@ function CompareView({ strikes, fundamentalLabel }: { strikes: ComparedStrike[];
       <section aria-labelledby="compare-decay-heading">
         <div className="flex flex-wrap items-baseline justify-between gap-2">
           <h3 id="compare-decay-heading" className="text-body font-semibold">
-            Decay of the fundamental{fundamentalLabel ? ` (${fundamentalLabel})` : ""}, overlaid
+            Decay of the fundamental{fundamentalLabel && fundamentalLabel.toLowerCase() !== "fundamental" ? ` (${fundamentalLabel})` : ""}, overlaid
           </h3>
           <label className="flex min-h-touch items-center gap-2 text-caption">
             <input type="checkbox" checked={showNoise} onChange={(e) => setShowNoise(e.target.checked)} className="size-5" />
@@ -198,14 +200,20 @@ function CompareView({ strikes, fundamentalLabel }: { strikes: ComparedStrike[];
               {labels.map((label) => (
                 <tr key={label} className="border-b border-line">
                   <th scope="row" className="py-2 pr-3 font-medium">{label}</th>
-                  {strikes.map((s) => {
+                  {strikes.map((s, i) => {
                     const p = partialByLabel(s, label);
+                    const ref = i > 0 ? partialByLabel(strikes[0], label) : undefined;
                     return (
                       <td key={s.detail.id} className="py-2 pr-3 font-mono">
                         {p ? (
                           <>
                             {p.frequencyHz.toFixed(2)} Hz
                             <span className="block text-ink-faint">T60 {p.t60S.toFixed(2)} s · Q {Math.round(p.q).toLocaleString("en-GB")}</span>
+                            {ref ? (
+                              <span className="block text-ink-soft" data-testid="compare-delta">
+                                {signedCents(cents(p.frequencyHz, ref.frequencyHz))} cents, T60 ×{(p.t60S / ref.t60S).toFixed(2)} against the first
+                              </span>
+                            ) : null}
                           </>
                         ) : (
                           <span className="text-ink-faint">not found</span>
@@ -218,7 +226,10 @@ function CompareView({ strikes, fundamentalLabel }: { strikes: ComparedStrike[];
             </tbody>
           </table>
         </div>
-        <p className="mt-2 text-caption text-ink-faint">Partials matched to the spec are named by their role; frequencies are as measured, before temperature correction.</p>
+        <p className="mt-2 text-caption text-ink-faint">
+          Partials matched to the spec are named by their role; frequencies are as measured, before temperature correction. The later strikes are compared with the first
+          ({strikes[0].name}): the shift in cents and the T60 as a multiple of the first one's.
+        </p>
       </section>
     </div>
   );
@@ -240,4 +251,10 @@ function partialLabels(strikes: ComparedStrike[]): string[] {
 function partialByLabel(s: ComparedStrike, label: string) {
   const entry = Object.entries(s.detail.labels).find(([, v]) => v === label);
   return entry ? s.detail.result!.strikes[0].partials[Number(entry[0])] : undefined;
+}
+
+/** +1.2 / −0.4 with a true minus sign. */
+function signedCents(v: number): string {
+  const t = v.toFixed(1);
+  return v > 0 ? `+${t}` : t.replace("-", "\u2212");
 }

@@ -26,7 +26,7 @@ export function LevelMeter({ peakDb, rmsDb, clipped }: { peakDb: number; rmsDb: 
       </div>
       <div className="relative h-4 font-mono text-[0.75rem] text-ink-faint" aria-hidden="true">
         {[-72, -48, -24, -12, 0].map((m) => (
-          <span key={m} className="absolute -translate-x-1/2 first:translate-x-0 last:-translate-x-full" style={{ left: `${pos(m) * 100}%` }}>
+          <span key={m} className="absolute -translate-x-1/2 whitespace-nowrap first:translate-x-0 last:-translate-x-full" style={{ left: `${pos(m) * 100}%` }}>
             {m === 0 ? "0 dBFS" : `\u2212${-m}`}
           </span>
         ))}

@@ -266,9 +266,6 @@ export function StrikeRecorder({ onRecorded, disabled }: { onRecorded: (file: Fi
             <Button onClick={() => onRecorded(phase.take.file)} disabled={disabled}>
               Use this recording
             </Button>
-            <Button variant="secondary" onClick={() => void start()} disabled={disabled}>
-              Record again
-            </Button>
             <Button variant="quiet" onClick={discard}>
               Discard
             </Button>
