@@ -58,5 +58,7 @@ export function formatUncertainty(value: number | null | undefined, floor?: numb
   if (value === 0) return "0";
   // Below the last digit worth reading (e.g. 0.01 cent), say so rather than print noise digits.
   if (floor !== undefined && value < floor) return `< ${floor}`;
-  return Number(value.toPrecision(2)).toString();
+  // Two significant digits, written out in full (toPrecision would switch to 8.8e-7 for small values).
+  const decimals = Math.max(0, 1 - Math.floor(Math.log10(Math.abs(value))));
+  return value.toFixed(decimals);
 }

@@ -75,6 +75,13 @@ describe("the ledger loop: maker uploads, qa disposes and releases", () => {
     await page.getByText(/^Raise the pitch by about (19|20|21)\.\d cents$/).waitFor();
     await page.getByRole("status").filter({ hasText: "Caution" }).waitFor();
     await screenshot(page, "e2e-unit-out-of-tolerance");
+
+    // Each strike links to its own page (the visual analysis feature), inside the same shell.
+    await page.getByRole("list", { name: "Strikes" }).getByRole("link", { name: "bench-take-2.wav" }).click();
+    await page.getByRole("heading", { name: "Strike of F-0012", level: 1 }).waitFor();
+    await page.getByRole("navigation", { name: "Main" }).waitFor();
+    await page.goBack();
+    await page.getByRole("heading", { name: "Unit F-0012", level: 1 }).waitFor();
   });
 
   it("the same file again on the same unit is recognised and refused with the server's words", async () => {

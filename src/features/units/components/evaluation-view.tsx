@@ -72,7 +72,7 @@ function RequirementRow({ r, repeatsReason }: { r: RequirementResult; repeatsRea
           {!r.required ? <span className="ml-1 font-normal text-ink-faint">(optional)</span> : null}
         </th>
         <td className="whitespace-nowrap py-2 pr-3 text-right tabular-nums">
-          {r.measuredHz != null ? `${formatNumber(r.measuredHz, 3)} ± ${formatUncertainty(r.expandedUncertaintyHz)} Hz` : "—"}
+          {r.measuredHz != null ? `${formatNumber(r.measuredHz, 3)} ± ${formatUncertainty(r.expandedUncertaintyHz, 0.001)} Hz` : "—"}
         </td>
         <td className="whitespace-nowrap py-2 pr-3 text-right tabular-nums">
           {r.targetHz != null ? `${formatNumber(r.targetHz, 3)} Hz` : "—"}

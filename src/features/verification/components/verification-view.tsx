@@ -74,7 +74,7 @@ export function VerificationView({ v }: { v: Verification }) {
                 <span className={clsx("text-caption font-semibold", r.result === "pass" ? "text-moss-600" : r.result === "fail" ? "text-rust-700" : "text-ochre-600")}>{lineWords[r.result]}</span>
               </div>
               <span className="tabular-nums">
-                {formatNumber(r.measuredHz, 3)} Hz ± {formatUncertainty(r.expandedUncertaintyHz)} Hz (k = 2)
+                {formatNumber(r.measuredHz, 3)} Hz ± {formatUncertainty(r.expandedUncertaintyHz, 0.001)} Hz (k = 2)
               </span>
               <span className="text-caption text-ink-soft tabular-nums">
                 Deviation {formatCents(r.deviationCents)}, tolerance ± {r.toleranceCents} ¢
