@@ -122,4 +122,30 @@ describe("a certificate: issued by qa, mailed with its PDF, verified signed out"
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
     await screenshot(page, "e2e-verify-phone");
   });
+
+  it("the owner amends it: a new number, the earlier one marked superseded there and on its verification page", async () => {
+    const { page } = browser;
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Batches" }).click();
+    await page.getByRole("link", { name: "BTW-2611", exact: true }).click();
+    await ledgerRow(page, "F-0001").getByRole("link", { name: "F-0001" }).click();
+    await page.getByRole("heading", { name: "Unit F-0001", level: 1 }).waitFor();
+    const list = page.getByRole("list", { name: "Certificates" });
+    const first = list.getByRole("listitem").filter({ hasText: certificateNumber });
+    await first.getByRole("button", { name: "Amend…" }).click();
+    const form = page.getByRole("form", { name: `Amend certificate ${certificateNumber}` });
+    await form.getByRole("button", { name: "Issue amendment" }).click();
+    await form.getByText("Say in a few words why the certificate is amended.").waitFor();
+    await form.getByLabel("Reason for the amendment").fill("Recipient's name was misspelt.");
+    await form.getByLabel("Recipient name").fill("Morgan Test-Customer");
+    await form.getByRole("button", { name: "Issue amendment" }).click();
+    await first.getByText(/^Superseded by /).waitFor();
+    const amendment = list.getByRole("listitem").filter({ hasText: `amends ${certificateNumber}` });
+    await amendment.getByText("Current").waitFor();
+    await screenshot(page, "e2e-certificate-amended");
+
+    const old = phone!.page;
+    await old.reload();
+    await old.getByRole("status").filter({ hasText: /^Superseded/ }).waitFor();
+    await old.getByRole("status").filter({ hasText: "Signature verified" }).waitFor();
+  });
 });

@@ -56,7 +56,8 @@ export function CertificatesPanel({ workshopId, unitId, customer, canIssue, bloc
             key={`amend-${amending}`}
             workshopId={workshopId}
             unitId={unitId}
-            customer={customer}
+            // An amendment goes to the same recipient unless changed.
+            customer={amendedRecipient(certificates.data, amending) ?? customer}
             amendsNumber={amending}
             onIssued={done}
             onCancel={() => setAmending(null)}
@@ -97,6 +98,11 @@ export function CertificatesPanel({ workshopId, unitId, customer, canIssue, bloc
       )}
     </div>
   );
+}
+
+function amendedRecipient(list: CertificateListItem[] | undefined, number: string) {
+  const c = list?.find((x) => x.number === number);
+  return c ? { name: c.recipientName, email: c.recipientEmail } : null;
 }
 
 function IssueForm({
