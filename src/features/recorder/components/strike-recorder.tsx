@@ -28,6 +28,7 @@ type Phase =
   | { name: "recording"; ringing: boolean; elapsedS: number }
   | { name: "encoding" }
   | { name: "review"; take: Take }
+  | { name: "sent"; fileName: string }
   | { name: "error"; message: string };
 
 export function StrikeRecorder({ onRecorded, disabled }: { onRecorded: (file: File) => void; disabled?: boolean }) {
@@ -211,7 +212,7 @@ export function StrikeRecorder({ onRecorded, disabled }: { onRecorded: (file: Fi
         ) : (
           <Button onClick={() => void start()} disabled={disabled}>
             <span aria-hidden="true" className="inline-block size-3 rounded-full bg-rust-300" />
-            {phase.name === "review" ? "Record again" : "Record"}
+            {phase.name === "review" ? "Record again" : phase.name === "sent" ? "Record another strike" : "Record"}
           </Button>
         )}
         <p className="text-body font-medium" aria-live="polite" role="status">
@@ -223,6 +224,7 @@ export function StrikeRecorder({ onRecorded, disabled }: { onRecorded: (file: Fi
           )}
           {phase.name === "recording" && (phase.ringing ? `Ringing… ${phase.elapsedS.toFixed(1)} s — it stops when the ring is back in the noise` : `Strike the unit now (${phase.elapsedS.toFixed(1)} s)`)}
           {phase.name === "encoding" && "Writing the WAV…"}
+          {phase.name === "sent" && `${phase.fileName} went to the uploads.`}
         </p>
       </div>
 
@@ -263,7 +265,17 @@ export function StrikeRecorder({ onRecorded, disabled }: { onRecorded: (file: Fi
             </Alert>
           ) : null}
           <div className="flex flex-wrap gap-2">
-            <Button onClick={() => onRecorded(phase.take.file)} disabled={disabled}>
+            <Button
+              onClick={() => {
+                const take = phase.take;
+                onRecorded(take.file);
+                // The caller owns the file now; the preview URL is no longer needed.
+                URL.revokeObjectURL(take.url);
+                urlRef.current = null;
+                setPhase({ name: "sent", fileName: take.file.name });
+              }}
+              disabled={disabled}
+            >
               Use this recording
             </Button>
             <Button variant="quiet" onClick={discard}>

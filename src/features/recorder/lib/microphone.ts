@@ -4,7 +4,9 @@
  * off — echo cancellation, noise suppression and automatic gain would reshape the decay we are
  * measuring — and streams blocks of float samples from an AudioWorklet.
  */
-import workletUrl from "./capture-processor.js?url";
+// `no-inline`: Vite would inline a file this small as a data: URL, which the server's
+// Content-Security-Policy (script-src 'self') rightly refuses to run as a worklet.
+import workletUrl from "./capture-processor.js?url&no-inline";
 
 export type Block = { samples: Float32Array; peak: number; rms: number };
 

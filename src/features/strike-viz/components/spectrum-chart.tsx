@@ -14,8 +14,13 @@ import { formatHz } from "../lib/format";
 
 type Scale = "linear" | "log";
 
-export function SpectrumChart({ spectrum, humHz, rows }: { spectrum: StrikePlot["spectrum"]; humHz: number[]; rows: PartialRow[] }) {
+export function SpectrumChart({ spectrum, humHz, rows: rowsIn }: { spectrum: StrikePlot["spectrum"]; humHz: number[]; rows: PartialRow[] }) {
   const [scale, setScale] = useState<Scale>("log");
+  // Rebuild the chart only when what it draws changes (labels, frequencies), not when the table's
+  // targets arrive with the unit's evaluation.
+  const markerKey = rowsIn.map((r) => `${r.index}:${r.label}:${r.partial.frequencyHz}`).join("|");
+  // eslint-disable-next-line react-hooks/exhaustive-deps
+  const rows = useMemo(() => rowsIn, [markerKey]);
 
   const data = useMemo<uPlot.AlignedData>(() => {
     // A log axis cannot show 0 Hz; drop non-positive frequencies for both views to keep one dataset.

@@ -59,7 +59,7 @@ function StrikeView({ workshopId, strike }: { workshopId: string; strike: Strike
   const current = strikes[shown] ?? strikes[0];
   const onsets = useMemo(() => strikes.map((s) => s.onsetS), [strikes]);
   // Labels describe result.strikes[0]; the other strikes of a file get "partial n" names.
-  const labels = shown === 0 ? strike.labels : {};
+  const labels = useMemo(() => (shown === 0 ? strike.labels : {}), [shown, strike.labels]);
   const rows = useMemo(
     () => (current ? partialRows(current.partials, labels, unit.data?.evaluation?.requirements ?? null) : []),
     [current, labels, unit.data],
