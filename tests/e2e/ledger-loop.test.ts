@@ -57,7 +57,7 @@ describe("the ledger loop: maker uploads, qa disposes and releases", () => {
     await ledgerRow(page, "F-0012").getByText("Out of tolerance").waitFor({ timeout: 90_000 });
     // Same document throughout: the page polled, it was not reloaded.
     expect(await page.evaluate(() => (window as unknown as { __sameDocument?: boolean }).__sameDocument)).toBe(true);
-    const deviation = await ledgerRow(page, "F-0012").getByRole("cell").nth(2).textContent();
+    const deviation = await ledgerRow(page, "F-0012").getByRole("cell").nth(3).textContent();
     // −20 cents synthesised; the analysis is checked to a fraction of a cent elsewhere, here the sign and size matter.
     expect(deviation).toMatch(/^−(19|20|21)\.\d ¢$/);
     await page.getByRole("button", { name: /^Out of tolerance/ }).click();

@@ -33,6 +33,11 @@ export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
           </Link>
         ),
       }),
+      column.accessor((row) => (row.verdict ? verdictOrder[row.verdict] : 3), {
+        id: "verdict",
+        header: "Verdict",
+        cell: (info) => <VerdictBadge verdict={info.row.original.verdict} />,
+      }),
       column.accessor("fundamentalHz", { header: "Fundamental (Hz)", cell: (info) => formatNumber(info.getValue(), 3), meta: { numeric: true } }),
       column.accessor("deviationCents", {
         header: "Deviation (cents)",
@@ -46,11 +51,6 @@ export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
       column.accessor("overtoneRatio", { header: "Overtone ratio", cell: (info) => formatNumber(info.getValue(), 3), meta: { numeric: true } }),
       column.accessor("t60S", { header: "T60 (s)", cell: (info) => formatNumber(info.getValue(), 1), meta: { numeric: true } }),
       column.accessor("q", { header: "Q", cell: (info) => formatNumber(info.getValue(), 0), meta: { numeric: true } }),
-      column.accessor((row) => (row.verdict ? verdictOrder[row.verdict] : 3), {
-        id: "verdict",
-        header: "Verdict",
-        cell: (info) => <VerdictBadge verdict={info.row.original.verdict} />,
-      }),
       column.accessor((row) => row.disposition?.decision ?? "", {
         id: "disposition",
         header: "Disposition",

@@ -33,7 +33,7 @@ function VersionCard({ version, current }: { version: SpecVersion; current: bool
         <dt className="text-ink-faint">Reference temperature</dt>
         <dd>{version.referenceTemperatureC} °C</dd>
         <dt className="text-ink-faint">Temperature coefficient</dt>
-        <dd>{version.tempCoefficientPerC} per °C</dd>
+        <dd>{formatCoefficient(version.tempCoefficientPerC)}</dd>
         <dt className="text-ink-faint">Strikes per unit</dt>
         <dd>{version.strikesRequired}</dd>
         <dt className="text-ink-faint">Decision rule</dt>
@@ -61,7 +61,7 @@ function VersionCard({ version, current }: { version: SpecVersion; current: bool
             {version.partials.map((p) => (
               <tr key={p.label}>
                 <td className="py-1.5 pr-3 font-medium">
-                  {p.label} {p.isFundamental ? <Badge>Fundamental</Badge> : null}
+                  {p.label} {p.isFundamental && p.label.trim().toLowerCase() !== "fundamental" ? <Badge>Fundamental</Badge> : null}
                 </td>
                 <td className="py-1.5 pr-3 tabular-nums">{p.targetKind === "absolute" ? `${formatNumber(p.targetHz, 3)} Hz` : `${formatNumber(p.ratio, 3)} × f₁`}</td>
                 <td className="py-1.5 pr-3 tabular-nums">± {p.toleranceCents} ¢</td>
@@ -76,4 +76,11 @@ function VersionCard({ version, current }: { version: SpecVersion; current: bool
       </div>
     </article>
   );
+}
+
+/** −0.0001 per °C reads better as −100 ppm/°C; both are shown so neither has to be converted. */
+function formatCoefficient(perC: number): string {
+  const ppm = perC * 1e6;
+  const minus = (x: string) => x.replace("-", "\u2212");
+  return `${minus(String(Number(ppm.toFixed(2))))} ppm/°C (${minus(String(perC))} per °C)`;
 }

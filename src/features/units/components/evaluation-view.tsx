@@ -43,8 +43,8 @@ export function EvaluationPanel({ evaluation, pending }: { evaluation: Evaluatio
           <caption className="sr-only">Requirements as measured</caption>
           <thead className="border-b border-line-strong text-ink-soft">
             <tr>
-              {["Partial", "Measured ± U (k = 2)", "Target", "Deviation ± U", "T60", "Q", "Beat", "Result"].map((h, i) => (
-                <th key={h} scope="col" className={clsx("py-2 pr-3 align-bottom font-semibold", i > 0 && i < 7 && "text-right")}>
+              {["Partial", "Result", "Measured ± U (k = 2)", "Target", "Deviation ± U", "T60", "Q", "Beat"].map((h, i) => (
+                <th key={h} scope="col" className={clsx("py-2 pr-3 align-bottom font-semibold", i > 1 && "text-right")}>
                   {h}
                 </th>
               ))}
@@ -71,6 +71,9 @@ function RequirementRow({ r, repeatsReason }: { r: RequirementResult; repeatsRea
           {r.label}
           {!r.required ? <span className="ml-1 font-normal text-ink-faint">(optional)</span> : null}
         </th>
+        <td className="py-2 pr-3">
+          <ResultBadge result={r.result} />
+        </td>
         <td className="whitespace-nowrap py-2 pr-3 text-right tabular-nums">
           {r.measuredHz != null ? `${formatNumber(r.measuredHz, 3)} ± ${formatUncertainty(r.expandedUncertaintyHz, 0.001)} Hz` : "—"}
         </td>
@@ -94,9 +97,6 @@ function RequirementRow({ r, repeatsReason }: { r: RequirementResult; repeatsRea
         <td className={clsx("whitespace-nowrap py-2 pr-3 text-right tabular-nums", failed(r.beat))}>
           {r.beatHz != null ? `${formatNumber(r.beatHz, 2)} Hz` : "—"}
           {r.maxBeatHz != null ? <span className="block font-normal text-ink-faint">max {r.maxBeatHz} Hz</span> : null}
-        </td>
-        <td className="py-2 pr-3">
-          <ResultBadge result={r.result} />
         </td>
       </tr>
       {r.note && !repeatsReason ? (
