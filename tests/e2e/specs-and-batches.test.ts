@@ -29,6 +29,10 @@ describe("specifications, a new batch and the workshop settings", () => {
     await open.getByRole("link", { name: "BTW-2611" }).waitFor();
     await open.getByRole("link", { name: "BTW-2612" }).waitFor();
     await page.getByRole("heading", { name: "Awaiting review" }).waitFor();
+    // The seeded strikes are analysed at start; the queue lists the two forks out of tolerance.
+    const queue = page.getByRole("list", { name: "Units awaiting review" });
+    await queue.getByRole("link", { name: "F-0004" }).waitFor({ timeout: 90_000 });
+    await queue.getByRole("link", { name: "F-0008" }).waitFor();
     await screenshot(page, "e2e-dashboard-qa");
   });
 

@@ -35,6 +35,7 @@ export function DashboardRoute() {
       <DashboardOverview
         workshopId={id}
         batchHref={paths.app.batch.getHref}
+        unitHref={paths.app.unit.getHref}
         noBatchesAction={
           can(role, "batch", "create") ? (
             <ButtonLink to={paths.app.newBatch.getHref()} variant="primary">

@@ -10,6 +10,7 @@ export function getDashboard(): Promise<Dashboard> {
 
 export const getDashboardQueryOptions = (workshopId: string) => queryOptions({ queryKey: ["workshops", workshopId, "dashboard"], queryFn: getDashboard });
 
+/** Refreshed every 10 s while open: analyses finish and colleagues dispose in the background. */
 export function useDashboard(workshopId: string) {
-  return useQuery(getDashboardQueryOptions(workshopId));
+  return useQuery({ ...getDashboardQueryOptions(workshopId), refetchInterval: 10_000 });
 }

@@ -5,18 +5,23 @@ import { Alert } from "@/components/ui/alert";
 import { EmptyState, Panel } from "@/components/ui/panel";
 import { Spinner } from "@/components/ui/spinner";
 import { BatchStateBadge } from "@/components/ui/status-badges";
+import { VerdictBadge } from "@/components/ui/status-badges";
+import { formatCents } from "@/lib/format";
 import { useDashboard } from "../api/get-dashboard";
+import { useReviewQueue } from "../api/get-review-queue";
 
 type Props = {
   workshopId: string;
   batchHref: (id: string) => string;
+  unitHref: (id: string) => string;
   /** What to do when there is no open batch (create one, or ask for one), chosen by role. */
   noBatchesAction: ReactNode;
   reviewNote: string;
 };
 
-export function DashboardOverview({ workshopId, batchHref, noBatchesAction, reviewNote }: Props) {
+export function DashboardOverview({ workshopId, batchHref, unitHref, noBatchesAction, reviewNote }: Props) {
   const dashboard = useDashboard(workshopId);
+  const queue = useReviewQueue(workshopId, dashboard.data?.openBatches ?? []);
   if (dashboard.isPending) return <Spinner label="Loading the workshop's batches…" />;
   if (dashboard.isError) return <Alert tone="error">{dashboard.error.message}</Alert>;
   const { openBatches, awaitingReview, released } = dashboard.data;
@@ -74,6 +79,32 @@ export function DashboardOverview({ workshopId, batchHref, noBatchesAction, revi
             ? "No unit in an open batch is out of tolerance or inconclusive."
             : `unit${awaitingReview === 1 ? "" : "s"} out of tolerance or inconclusive in open batches. ${reviewNote}`}
         </p>
+        {awaitingReview > 0 ? (
+          queue.pending ? (
+            <Spinner size="sm" label="Listing them…" />
+          ) : queue.error ? (
+            <Alert tone="error">{queue.error.message}</Alert>
+          ) : queue.items.length > 0 ? (
+            <ul aria-label="Units awaiting review" className="mt-3 divide-y divide-line">
+              {queue.items.map(({ batch, row }) => (
+                <li key={row.id} className="flex items-center justify-between gap-2 py-2 text-caption">
+                  <span>
+                    <Link to={unitHref(row.id)} className="font-semibold text-steel-700 underline underline-offset-2">
+                      {row.serial}
+                    </Link>{" "}
+                    <span className="text-ink-faint">in {batch.code}</span>
+                  </span>
+                  <span className="flex items-center gap-2">
+                    <span className="tabular-nums">{formatCents(row.deviationCents)}</span>
+                    <VerdictBadge verdict={row.verdict} />
+                  </span>
+                </li>
+              ))}
+            </ul>
+          ) : (
+            <p className="mt-2 text-caption text-ink-soft">Each of them already has a disposition.</p>
+          )
+        ) : null}
         <p className="mt-3 text-caption text-ink-faint">{released} batch{released === 1 ? "" : "es"} released so far.</p>
       </Panel>
     </div>
