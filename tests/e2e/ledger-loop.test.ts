@@ -10,6 +10,7 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { demo, launchBrowser, screenshot, signInThroughForm, startServer, type LaunchedBrowser, type RunningServer } from "../support/browser";
+import { synthStrikeWav } from "../../seeds/synth";
 import { forkWav } from "../support/wav";
 import { dispose, ledgerRow, openBatch, waitForVerdicts } from "./ledger-steps";
 
@@ -23,6 +24,8 @@ describe("the ledger loop: maker uploads, qa disposes and releases", () => {
     // 440 Hz is on target (±5 cents in the demo spec); 440·2^(−20/1200) Hz is 20 cents flat.
     writeFileSync(path.join(wavDir, "F-0011-a.wav"), forkWav({ frequencyHz: 440, seed: 11 }));
     writeFileSync(path.join(wavDir, "bench-take-2.wav"), forkWav({ frequencyHz: 440 * 2 ** (-20 / 1200), seed: 12 }));
+    // A valid WAV of pure digital silence: accepted, then the analysis fails it with a reason.
+    writeFileSync(path.join(wavDir, "forgot-to-strike.wav"), synthStrikeWav({ durationS: 1, partials: [], noise: 0, seed: 1 }));
     server = await startServer();
     browser = await launchBrowser();
   });
@@ -93,6 +96,16 @@ describe("the ledger loop: maker uploads, qa disposes and releases", () => {
     const refused = page.getByRole("list", { name: "Uploads" }).getByRole("alert");
     await refused.waitFor();
     expect((await refused.textContent())?.toLowerCase()).toContain("already");
+  });
+
+  it("a recording with no strike in it fails its analysis, and the list says why in plain words", async () => {
+    const { page } = browser;
+    await page.getByLabel("WAV recordings for this unit").setInputFiles(path.join(wavDir, "forgot-to-strike.wav"));
+    const item = page.getByRole("list", { name: "Strikes" }).getByRole("listitem").filter({ hasText: "forgot-to-strike.wav" });
+    await item.getByText("Failed").waitFor({ timeout: 60_000 });
+    const reason = await item.getByRole("alert").textContent();
+    expect(reason).toMatch(/^Not analysed: \S.{10,}/);
+    await screenshot(page, "e2e-unit-failed-strike");
   });
 
   it("qa sees F-0004 and F-0008 out of tolerance in BTW-2611, is refused a release while they are open", async () => {
