@@ -33,11 +33,11 @@ export function formatHz(value: number | null | undefined): string {
   return `${value.toFixed(value < 1000 ? 3 : 2)} Hz`;
 }
 
-/** Cents always carry their sign, with a true minus sign (U+2212), so "+3.1" and "−9.4" read at a glance. */
+/** Cents carry their sign, with a true minus sign (U+2212), so "+3.1" and "−9.4" read at a glance; zero has none. */
 export function formatCents(value: number | null | undefined, decimals = 1): string {
   if (value == null || !Number.isFinite(value)) return dash;
   const rounded = Number(value.toFixed(decimals));
-  const sign = rounded > 0 ? "+" : rounded < 0 ? "\u2212" : "±";
+  const sign = rounded > 0 ? "+" : rounded < 0 ? "\u2212" : "";
   return `${sign}${Math.abs(rounded).toFixed(decimals)} ¢`;
 }
 
@@ -59,6 +59,7 @@ export function formatUncertainty(value: number | null | undefined, floor?: numb
   // Below the last digit worth reading (e.g. 0.01 cent), say so rather than print noise digits.
   if (floor !== undefined && value < floor) return `< ${floor}`;
   // Two significant digits, written out in full (toPrecision would switch to 8.8e-7 for small values).
-  const decimals = Math.max(0, 1 - Math.floor(Math.log10(Math.abs(value))));
-  return value.toFixed(decimals);
+  const rounded = Number(Math.abs(value).toPrecision(2));
+  const decimals = Math.max(0, 1 - Math.floor(Math.log10(rounded)));
+  return rounded.toFixed(decimals);
 }
