@@ -14,6 +14,9 @@ import { Spinner } from "@/components/ui/spinner";
 import { useMe } from "@/lib/auth";
 import { formatDateTime } from "@/lib/format";
 import { useStrikes } from "../api/get-strike";
+import { decimateIndices } from "../lib/decimate";
+import { frequencyTicks } from "../lib/ticks";
+import { useWidth } from "../lib/use-width";
 import { UplotChart, type ChartOptions } from "./uplot-chart";
 
 /** Distinct hues from the theme that stay apart in print; the dash pattern repeats the distinction. */
@@ -61,16 +64,26 @@ export function CompareStrikes({ unit }: { unit: UnitDetail }) {
       </Alert>
     );
   }
-  const strikes: ComparedStrike[] = queries
-    .map((q) => q.data as StrikeDetail)
-    .filter((d) => d.result?.strikes[0])
-    .map((detail, i) => ({
-      detail,
-      name: strikeName(detail),
-      colour: palette[i % palette.length],
-      dash: dashes[Math.floor(i / palette.length) % dashes.length] ?? dashes[i % dashes.length],
-      f0Index: fundamentalIndex(detail, fundamentalLabel),
-    }));
+  return <CompareReady queries={queries.map((q) => q.data as StrikeDetail)} fundamentalLabel={fundamentalLabel} />;
+}
+
+/** Builds the compared strikes once per change of the fetched data (the unit page polls). */
+function CompareReady({ queries, fundamentalLabel }: { queries: StrikeDetail[]; fundamentalLabel: string | null }) {
+  const key = queries.map((d) => `${d.id}:${d.finishedAt}`).join("|") + `|${fundamentalLabel}`;
+  const strikes = useMemo<ComparedStrike[]>(
+    () =>
+      queries
+        .filter((d) => d.result?.strikes[0])
+        .map((detail, i) => ({
+          detail,
+          name: strikeName(detail),
+          colour: palette[i % palette.length],
+          dash: dashes[Math.floor(i / palette.length) % dashes.length] ?? dashes[i % dashes.length],
+          f0Index: fundamentalIndex(detail, fundamentalLabel),
+        })),
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+    [key],
+  );
   return <CompareView strikes={strikes} fundamentalLabel={fundamentalLabel} />;
 }
 
@@ -83,22 +96,30 @@ function fundamentalIndex(detail: StrikeDetail, fundamentalLabel: string | null)
 
 function CompareView({ strikes, fundamentalLabel }: { strikes: ComparedStrike[]; fundamentalLabel: string | null }) {
   const [showNoise, setShowNoise] = useState(false);
-  const withPlot = strikes.filter((s) => s.detail.result?.strikes[0]?.plot);
+  const [wrapRef, width] = useWidth<HTMLDivElement>();
+  // The joined x axis of k strikes holds at most k × their own points: give each strike its share
+  // of the plot's pixel columns, so the chart never carries more points than it can show.
+  const columns = Math.max(100, width - 80);
+  const withPlot = useMemo(() => strikes.filter((s) => s.detail.result?.strikes[0]?.plot), [strikes]);
 
   const spectrum = useMemo(() => {
+    const share = Math.max(1, Math.floor(columns / Math.max(1, withPlot.length)));
     const tables = withPlot.map((s) => {
       const sp = s.detail.result!.strikes[0].plot!.spectrum;
-      const keep = sp.frequencyHz.map((f, i) => [f, i] as const).filter(([f]) => f > 0);
-      return [keep.map(([f]) => f), keep.map(([, i]) => sp.magnitudeDb[i])] as uPlot.AlignedData;
+      const positive = sp.frequencyHz.map((f, i) => [f, i] as const).filter(([f]) => f >= 10);
+      const fs = positive.map(([f]) => f);
+      const ms = positive.map(([, i]) => sp.magnitudeDb[i]);
+      const keep = decimateIndices(fs, ms, share, { log: true, mode: "max" });
+      return [keep.map((i) => fs[i]), keep.map((i) => ms[i])] as uPlot.AlignedData;
     });
     // uPlot wants one x array: join the strikes' frequency grids, leaving gaps where a grid lacks a point.
     const data = uPlot.join(tables);
     const xs = data[0] as number[];
     const options: ChartOptions = {
       // Log axis from 10 Hz (mains hum at 50/60 Hz stays in view; below 10 Hz is room rumble).
-      scales: { x: { time: false, distr: 3, log: 10, range: [Math.max(10, xs[0] ?? 10), xs[xs.length - 1] ?? 20_000] } },
+      scales: { x: { time: false, distr: 3, log: 10, range: [10, xs[xs.length - 1] ?? 20_000] } },
       axes: [
-        { ...axis, label: "Frequency (Hz)", values: (_u, vals) => vals.map((v) => (v == null ? "" : v >= 1000 ? `${+(v / 1000).toFixed(2)}k` : `${+v.toFixed(0)}`)) },
+        { ...axis, label: "Frequency (Hz)", splits: (_u, _i, min, max) => frequencyTicks(min, max, true), filter: (_u, splits) => splits, values: (_u, vals) => vals.map((v) => (v == null ? "" : v >= 1000 ? `${+(v / 1000).toFixed(2)}k` : `${+v.toFixed(0)}`)) },
         { ...axis, label: "Magnitude (dBFS)", size: 56 },
       ],
       series: [
@@ -108,7 +129,7 @@ function CompareView({ strikes, fundamentalLabel }: { strikes: ComparedStrike[];
       cursor: { drag: { x: true, y: false, setScale: true } },
     };
     return { data, options };
-  }, [withPlot]);
+  }, [withPlot, columns]);
 
   const decay = useMemo(() => {
     const tables: uPlot.AlignedData[] = [];
@@ -118,7 +139,8 @@ function CompareView({ strikes, fundamentalLabel }: { strikes: ComparedStrike[];
       const env = s.f0Index >= 0 ? r.plot!.envelopes[s.f0Index] : undefined;
       if (!env) continue;
       // Time from this strike's onset, so strikes recorded with different lead-in line up.
-      tables.push([env.timeS.map((t) => t - r.onsetS), env.levelDb]);
+      const keep = decimateIndices(env.timeS, env.levelDb, Math.max(1, Math.floor(columns / Math.max(1, withPlot.length) / 2)), { mode: "minmax" });
+      tables.push([keep.map((i) => env.timeS[i] - r.onsetS), keep.map((i) => env.levelDb[i])]);
       shown.push(s);
     }
     const data = tables.length ? uPlot.join(tables) : ([[]] as unknown as uPlot.AlignedData);
@@ -150,16 +172,16 @@ function CompareView({ strikes, fundamentalLabel }: { strikes: ComparedStrike[];
       hooks: { draw: [noise] },
     };
     return { data, options, shown };
-  }, [withPlot, showNoise]);
+  }, [withPlot, showNoise, columns]);
 
   const labels = partialLabels(strikes);
 
   return (
-    <div className="flex flex-col gap-6" data-testid="compare-strikes">
+    <div ref={wrapRef} className="flex flex-col gap-6" data-testid="compare-strikes">
       <section aria-labelledby="compare-spectra-heading">
         <h3 id="compare-spectra-heading" className="text-body font-semibold">Spectra, overlaid</h3>
         <p className="mb-2 text-caption text-ink-faint">Logarithmic frequency axis. Drag across to zoom into a partial; double-click to see all.</p>
-        {withPlot.length ? (
+        {withPlot.length && width > 0 ? (
           <UplotChart options={spectrum.options} data={spectrum.data} height={300} label={`Spectra of ${withPlot.length} strikes overlaid: ${withPlot.map((s) => s.name).join("; ")}`} />
         ) : (
           <p className="text-ink-soft">These strikes were analysed before plot series were stored.</p>
@@ -175,7 +197,7 @@ function CompareView({ strikes, fundamentalLabel }: { strikes: ComparedStrike[];
             Show each strike's noise floor
           </label>
         </div>
-        {decay.shown.length ? (
+        {decay.shown.length && width > 0 ? (
           <UplotChart options={decay.options} data={decay.data} height={260} label={`Decay of the fundamental for ${decay.shown.length} strikes overlaid`} />
         ) : (
           <p className="text-ink-soft">No strike has an envelope for the fundamental.</p>

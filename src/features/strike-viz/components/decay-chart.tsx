@@ -10,7 +10,9 @@ import { useMemo } from "react";
 import type uPlot from "uplot";
 import type { Partial, StrikePlot } from "@shared/schemas/analysis";
 import { chartColours } from "../lib/colours";
+import { decimateIndices } from "../lib/decimate";
 import { fixed } from "../lib/format";
+import { useWidth } from "../lib/use-width";
 import { UplotChart, type ChartOptions } from "./uplot-chart";
 
 /** 20·log10(e): dB per neper of amplitude. */
@@ -43,10 +45,19 @@ export function DecayChart({ partial, envelope, label, height = 220 }: { partial
   const t0 = partial.amplitudeAtS ?? partial.fitStartS;
   const two = partial.twoStage ?? null;
 
+  const [wrapRef, width] = useWidth<HTMLDivElement>();
+  // No more points than pixel columns: each pair of columns keeps its lowest and highest level,
+  // so a beating envelope keeps its depth.
+  const columns = Math.max(100, width - 80);
+  const envelopeShown = useMemo(() => {
+    const keep = decimateIndices(envelope.timeS, envelope.levelDb, Math.max(1, Math.floor(columns / 2)), { mode: "minmax" });
+    return { timeS: keep.map((i) => envelope.timeS[i]), levelDb: keep.map((i) => envelope.levelDb[i]) };
+  }, [envelope, columns]);
+
   const data = useMemo<uPlot.AlignedData>(() => {
-    const t = envelope.timeS;
+    const t = envelopeShown.timeS;
     const inFit = (x: number) => x >= partial.fitStartS && x <= partial.fitEndS;
-    const series: (number | null)[][] = [envelope.levelDb, t.map(() => envelope.noiseFloorDb)];
+    const series: (number | null)[][] = [envelopeShown.levelDb, t.map(() => envelope.noiseFloorDb)];
     if (two) {
       // The analysis reports each stage's τ and the knee, not the stages' levels: each line is
       // drawn with its reported slope through the mean of the envelope over its own stage.
@@ -58,7 +69,7 @@ export function DecayChart({ partial, envelope, label, height = 220 }: { partial
       series.push(t.map((x) => (inFit(x) ? fittedLevelDb(partial.amplitudeDb, t0, partial.tauS, x) : null)));
     }
     return [t, ...series];
-  }, [envelope, partial, t0, two]);
+  }, [envelopeShown, envelope.noiseFloorDb, partial, t0, two]);
 
   const options = useMemo<ChartOptions>(() => {
     const shade = (u: uPlot) => {
@@ -121,7 +132,9 @@ export function DecayChart({ partial, envelope, label, height = 220 }: { partial
 
   return (
     <figure className="flex flex-col gap-1">
-      <UplotChart options={options} data={data} height={height} label={description} className="tl-chart tl-decay w-full" />
+      <div ref={wrapRef} className="w-full">
+        {width > 0 ? <UplotChart options={options} data={data} height={height} label={description} className="tl-chart tl-decay w-full" /> : null}
+      </div>
       <figcaption className="text-caption text-ink-faint">
         Shaded: the evaluation range, {fixed(partial.fitStartS, 2)}–{fixed(partial.fitEndS, 2)} s.
         {two ? ` Two stages: the dotted line marks the knee at ${fixed(two.kneeS, 2)} s.` : ""}

@@ -3,75 +3,143 @@
  * logarithmic axis, the local noise floor, each reported partial marked and labelled with its
  * role in the spec, and mains hum lines marked as ignored. Marker labels are HTML laid over the
  * canvas so they can be read by people, screen readers and tests alike.
+ *
+ * The chart never holds more points than it has pixel columns: the server's series is bucketed
+ * to the plot width (keeping each bucket's peak), and again for the visible band after a zoom.
  */
-import { useMemo, useState } from "react";
+import { useEffect, useMemo, useRef, useState } from "react";
 import type uPlot from "uplot";
 import type { StrikePlot } from "@shared/schemas/analysis";
+import { Button } from "@/components/ui/button";
 import { chartColours } from "../lib/colours";
+import { decimateIndices } from "../lib/decimate";
+import { formatHz } from "../lib/format";
+import { frequencyTicks } from "../lib/ticks";
 import type { PartialRow } from "../lib/partial-rows";
 import { UplotChart, type ChartOptions } from "./uplot-chart";
-import { formatHz } from "../lib/format";
 
 type Scale = "linear" | "log";
 
+const ZOOM_CENTS = 200;
+
+/** Width taken by the y axis and padding of the spectrum plot, CSS px (axis size 56 + label). */
+const Y_AXIS_PX = 80;
+
+type Full = { f: number[]; mag: number[]; floor: (number | null)[] };
+
+/** The series for uPlot, bucketed to `columns` pixel columns over [lo, hi]. */
+function plotData(full: Full, columns: number, lo: number, hi: number, log: boolean): uPlot.AlignedData {
+  const keep = decimateIndices(full.f, full.mag, Math.max(1, Math.floor(columns)), { range: [lo, hi], log, mode: "max" });
+  // One neighbour outside the band on each side, so the line runs to the plot's edges.
+  const before = full.f.findLastIndex((f) => f < lo);
+  const after = full.f.findIndex((f) => f > hi);
+  if (before >= 0) keep.unshift(before);
+  if (after >= 0) keep.push(after);
+  return [keep.map((i) => full.f[i]), keep.map((i) => full.mag[i]), keep.map((i) => full.floor[i])];
+}
+
 export function SpectrumChart({ spectrum, humHz, rows: rowsIn }: { spectrum: StrikePlot["spectrum"]; humHz: number[]; rows: PartialRow[] }) {
   const [scale, setScale] = useState<Scale>("log");
+  const [focus, setFocus] = useState<string>("all");
+  const wrapRef = useRef<HTMLDivElement>(null);
+  const chartRef = useRef<uPlot | null>(null);
+  const resetRef = useRef<() => void>(() => undefined);
+  const [width, setWidth] = useState(0);
   // Rebuild the chart only when what it draws changes (labels, frequencies), not when the table's
   // targets arrive with the unit's evaluation.
   const markerKey = rowsIn.map((r) => `${r.index}:${r.label}:${r.partial.frequencyHz}`).join("|");
   // eslint-disable-next-line react-hooks/exhaustive-deps
   const rows = useMemo(() => rowsIn, [markerKey]);
 
-  const data = useMemo<uPlot.AlignedData>(() => {
-    // A log axis cannot show 0 Hz; drop non-positive frequencies for both views to keep one dataset.
+  useEffect(() => {
+    const el = wrapRef.current;
+    if (!el) return;
+    const update = () => setWidth(Math.floor(el.clientWidth));
+    update();
+    const observer = new ResizeObserver(update);
+    observer.observe(el);
+    return () => observer.disconnect();
+  }, []);
+
+  // A log axis cannot show 0 Hz; drop non-positive frequencies for both views to keep one dataset.
+  const full = useMemo<Full>(() => {
     const keep: number[] = [];
     spectrum.frequencyHz.forEach((f, i) => {
       if (f > 0) keep.push(i);
     });
-    return [keep.map((i) => spectrum.frequencyHz[i]), keep.map((i) => spectrum.magnitudeDb[i]), keep.map((i) => spectrum.noiseFloorDb[i] ?? null)];
+    return { f: keep.map((i) => spectrum.frequencyHz[i]), mag: keep.map((i) => spectrum.magnitudeDb[i]), floor: keep.map((i) => spectrum.noiseFloorDb[i] ?? null) };
   }, [spectrum]);
 
+  const fMax = full.f.length ? full.f[full.f.length - 1] : 1;
+  // On the log axis, start at a power of ten (at least 10 Hz) so the ticks fall on 10, 100, 1k, 10k.
+  const fLo = scale === "log" ? Math.max(10, Math.pow(10, Math.floor(Math.log10(full.f[0] ?? 10)))) : 0;
+  const columns = Math.max(100, width - Y_AXIS_PX);
+
+  const data = useMemo(() => plotData(full, columns, fLo, fMax, scale === "log"), [full, columns, fLo, fMax, scale]);
+
   const options = useMemo<ChartOptions>(() => {
-    const xs = data[0] as number[];
-    const fMin = xs.length ? xs[0] : 1;
-    const fMax = xs.length ? xs[xs.length - 1] : 1;
     const markers = (u: uPlot) => {
       const ctx = u.ctx;
       const { top, height } = u.bbox;
       const dpr = devicePixelRatio || 1;
+      const [lo, hi] = [u.scales.x.min ?? fLo, u.scales.x.max ?? fMax];
       ctx.save();
       ctx.lineWidth = 1.5 * dpr;
+      ctx.strokeStyle = chartColours.hum;
+      ctx.setLineDash([3 * dpr, 4 * dpr]);
       for (const hum of humHz) {
-        if (hum < fMin || hum > fMax) continue;
+        if (hum < lo || hum > hi) continue;
         const x = u.valToPos(hum, "x", true);
-        ctx.strokeStyle = chartColours.hum;
-        ctx.setLineDash([3 * dpr, 4 * dpr]);
         ctx.beginPath();
         ctx.moveTo(x, top);
         ctx.lineTo(x, top + height);
         ctx.stroke();
       }
       ctx.setLineDash([]);
+      ctx.strokeStyle = chartColours.partial;
       for (const row of rows) {
-        const x = u.valToPos(row.partial.frequencyHz, "x", true);
-        ctx.strokeStyle = chartColours.partial;
+        const f = row.partial.frequencyHz;
+        if (f < lo || f > hi) continue;
+        const x = u.valToPos(f, "x", true);
         ctx.beginPath();
         ctx.moveTo(x, top + 22 * dpr);
         ctx.lineTo(x, top + height);
         ctx.stroke();
       }
       ctx.restore();
-      placeLabels(u, rows, humHz, fMin, fMax);
+      placeLabels(u, rows, humHz, lo, hi);
+    };
+    let rebucketing = false;
+    // After a zoom, bucket the server's series again for the visible band (more detail, same point budget).
+    const rebucket = (u: uPlot, key: string) => {
+      if (key !== "x" || rebucketing) return;
+      const lo = u.scales.x.min;
+      const hi = u.scales.x.max;
+      if (lo == null || hi == null) return;
+      rebucketing = true;
+      // Resetting the scales makes uPlot recompute which points are in view (its window indices
+      // belong to the previous data); the x range then follows the new data, which reaches just
+      // past the band on each side.
+      u.setData(plotData(full, u.bbox.width / (devicePixelRatio || 1), Math.max(lo, full.f[0] ?? lo), hi, scale === "log"), true);
+      rebucketing = false;
     };
     return {
       scales: {
         // STACK.md trap 10: uPlot's x axis is a time axis unless told otherwise.
-        // On the log axis, start at a power of ten so the ticks fall on 10, 100, 1k, 10k.
-        x: { time: false, distr: scale === "log" ? 3 : 1, log: 10, range: [scale === "log" ? Math.max(10, Math.pow(10, Math.floor(Math.log10(fMin)))) : 0, fMax] },
+        x: { time: false, distr: scale === "log" ? 3 : 1, log: 10, range: (_u, min, max) => (min === max ? [fLo, fMax] : [Math.max(fLo, min), max]) },
         y: { auto: true },
       },
       axes: [
-        { label: "Frequency (Hz)", stroke: chartColours.axis, grid: { stroke: chartColours.grid }, ticks: { stroke: chartColours.grid }, values: (_u, vals) => vals.map((v) => (v == null ? "" : v >= 1000 ? `${+(v / 1000).toFixed(2)}k` : `${+v.toFixed(0)}`)) },
+        {
+          label: "Frequency (Hz)",
+          splits: (_u, _i, min, max) => frequencyTicks(min, max, scale === "log"),
+          // uPlot's log axis would label only powers of ten; every chosen split gets its label.
+          filter: (_u, splits) => splits,
+          stroke: chartColours.axis,
+          grid: { stroke: chartColours.grid },
+          ticks: { stroke: chartColours.grid },
+          values: (_u, vals) => vals.map((v) => (v == null ? "" : v >= 1000 ? `${+(v / 1000).toFixed(3)}k` : `${+v.toFixed(v < 10 ? 1 : 0)}`)),
+        },
         { label: "Magnitude (dBFS)", stroke: chartColours.axis, grid: { stroke: chartColours.grid }, ticks: { stroke: chartColours.grid }, size: 56 },
       ],
       series: [
@@ -79,11 +147,37 @@ export function SpectrumChart({ spectrum, humHz, rows: rowsIn }: { spectrum: Str
         { label: "Spectrum", stroke: chartColours.spectrum, width: 1.25, value: (_u, v) => (v == null ? "–" : `${v.toFixed(1)} dBFS`) },
         { label: "Noise floor", stroke: chartColours.noise, width: 1.25, dash: [6, 4], value: (_u, v) => (v == null ? "–" : `${v.toFixed(1)} dBFS`) },
       ],
-      cursor: { drag: { x: true, y: false, setScale: true } },
+      cursor: {
+        drag: { x: true, y: false, setScale: true },
+        // Double-click shows the whole spectrum again. uPlot's own reset would fit the x scale to
+        // the data in hand, which after a zoom is only the visible band's buckets.
+        bind: {
+          dblclick: () => () => {
+            resetRef.current();
+            return null;
+          },
+        },
+      },
       legend: { live: true },
-      hooks: { draw: [markers] },
+      hooks: { draw: [markers], setScale: [rebucket] },
     };
-  }, [data, rows, humHz, scale]);
+  }, [full, rows, humHz, scale, fLo, fMax]);
+
+  // Zoom to one partial from the keyboard: ±200 cents around it (the server's series has buckets
+  // of about 25 Hz, so a narrower band would hold too few points to draw), or back to the whole spectrum.
+  const zoomTo = (value: string) => {
+    setFocus(value);
+    const u = chartRef.current;
+    if (!u) return;
+    const row = rows.find((r) => String(r.index) === value);
+    if (!row) u.setScale("x", { min: fLo, max: fMax });
+    else {
+      const k = Math.pow(2, ZOOM_CENTS / 1200);
+      u.setScale("x", { min: row.partial.frequencyHz / k, max: row.partial.frequencyHz * k });
+    }
+  };
+
+  resetRef.current = () => zoomTo("all");
 
   return (
     <div className="flex flex-col gap-2">
@@ -91,15 +185,52 @@ export function SpectrumChart({ spectrum, humHz, rows: rowsIn }: { spectrum: Str
         <fieldset className="flex items-center gap-1 rounded-control border border-line-strong p-1">
           <legend className="sr-only">Frequency axis</legend>
           {(["linear", "log"] as const).map((s) => (
-            <label key={s} className={`cursor-pointer rounded-[0.35rem] px-3 py-1.5 text-caption font-medium ${scale === s ? "bg-steel-600 text-white" : "text-ink-soft hover:bg-sunken"}`}>
-              <input type="radio" name="spectrum-scale" value={s} checked={scale === s} onChange={() => setScale(s)} className="sr-only" />
+            <label key={s} className={`cursor-pointer rounded-[0.35rem] px-3 py-1.5 text-caption font-medium focus-within:outline focus-within:outline-3 focus-within:outline-steel-400 ${scale === s ? "bg-steel-600 text-white" : "text-ink-soft hover:bg-sunken"}`}>
+              <input
+                type="radio"
+                name="spectrum-scale"
+                value={s}
+                checked={scale === s}
+                onChange={() => {
+                  setScale(s);
+                  setFocus("all");
+                }}
+                className="sr-only"
+              />
               {s === "linear" ? "Linear Hz" : "Logarithmic Hz"}
             </label>
           ))}
         </fieldset>
-        <p className="text-caption text-ink-faint">Drag across the chart to zoom into a band; double-click to see it all again.</p>
+        <label className="flex items-center gap-2 text-caption font-medium text-ink-soft">
+          Show
+          <select value={focus} onChange={(e) => zoomTo(e.target.value)} className="min-h-9 rounded-control border border-line-strong bg-surface px-2 text-caption text-ink">
+            <option value="all">the whole spectrum</option>
+            {rows.map((r) => (
+              <option key={r.index} value={String(r.index)}>
+                {r.label} ± {ZOOM_CENTS} cents
+              </option>
+            ))}
+          </select>
+        </label>
+        {focus !== "all" ? (
+          <Button size="sm" variant="quiet" onClick={() => zoomTo("all")}>
+            Whole spectrum
+          </Button>
+        ) : null}
+        <p className="text-caption text-ink-faint">Or drag across the chart to zoom into a band; double-click to see it all again.</p>
       </div>
-      <UplotChart options={options} data={data} height={320} label={`Spectrum with ${rows.length} partials marked: ${rows.map((r) => `${r.label} at ${formatHz(r.partial.frequencyHz)}`).join("; ")}`} className="tl-chart tl-spectrum w-full" />
+      <div ref={wrapRef} className="w-full">
+        {width > 0 ? (
+          <UplotChart
+            options={options}
+            data={data}
+            height={320}
+            onCreate={(u) => (chartRef.current = u)}
+            label={`Spectrum with ${rows.length} partials marked: ${rows.map((r) => `${r.label} at ${formatHz(r.partial.frequencyHz)}`).join("; ")}`}
+            className="tl-chart tl-spectrum w-full"
+          />
+        ) : null}
+      </div>
       {humHz.length ? (
         <p className="text-caption text-ink-faint">
           Dashed grey lines: mains hum at {humHz.map((h) => formatHz(h, 0)).join(", ")} — recognised and ignored, not a partial of the unit.
@@ -110,7 +241,7 @@ export function SpectrumChart({ spectrum, humHz, rows: rowsIn }: { spectrum: Str
 }
 
 /** Labels above the markers, in HTML over the plot, staggered in rows so close partials stay legible. */
-function placeLabels(u: uPlot, rows: PartialRow[], humHz: number[], fMin: number, fMax: number) {
+function placeLabels(u: uPlot, rows: PartialRow[], humHz: number[], lo: number, hi: number) {
   let layer = u.over.querySelector<HTMLDivElement>(".tl-marker-layer");
   if (!layer) {
     layer = document.createElement("div");
@@ -127,7 +258,7 @@ function placeLabels(u: uPlot, rows: PartialRow[], humHz: number[], fMin: number
     for (const [k, v] of Object.entries(dataset)) el.dataset[k] = v;
     layer!.appendChild(el);
     const width = el.offsetWidth || text.length * 7;
-    let left = Math.min(Math.max(0, x - width / 2), u.over.clientWidth - width);
+    const left = Math.min(Math.max(0, x - width / 2), u.over.clientWidth - width);
     let row = 0;
     while (row < lastRight.length && lastRight[row] > left - 4) row++;
     if (row > 2) row = 2;
@@ -137,15 +268,11 @@ function placeLabels(u: uPlot, rows: PartialRow[], humHz: number[], fMin: number
   };
   for (const row of rows) {
     const f = row.partial.frequencyHz;
-    if (f < fMin || f > fMax) continue;
-    const x = u.valToPos(f, "x");
-    if (x < 0 || x > u.over.clientWidth) continue;
-    place(x, row.label, "tl-marker tl-marker-partial", { partialIndex: String(row.index), label: row.label });
+    if (f < lo || f > hi) continue;
+    place(u.valToPos(f, "x"), row.label, "tl-marker tl-marker-partial", { partialIndex: String(row.index), label: row.label });
   }
   for (const hum of humHz) {
-    if (hum < fMin || hum > fMax) continue;
-    const x = u.valToPos(hum, "x");
-    if (x < 0 || x > u.over.clientWidth) continue;
-    place(x, "hum (ignored)", "tl-marker tl-marker-hum", { humHz: String(hum) });
+    if (hum < lo || hum > hi) continue;
+    place(u.valToPos(hum, "x"), "hum (ignored)", "tl-marker tl-marker-hum", { humHz: String(hum) });
   }
 }
