@@ -4,7 +4,8 @@
  */
 import { createColumnHelper, flexRender, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
 import clsx from "clsx";
-import { useMemo, useState } from "react";
+import { useEffect, useMemo, useState } from "react";
+import { flushSync } from "react-dom";
 import { Link } from "react-router";
 import type { LedgerRow } from "@shared/schemas/batch";
 import { EmptyState } from "@/components/ui/panel";
@@ -15,6 +16,13 @@ export type LedgerFilter = "all" | "out_of_tolerance" | "open";
 const filterLabels: Record<LedgerFilter, string> = { all: "All units", out_of_tolerance: "Out of tolerance", open: "Open" };
 
 const column = createColumnHelper<LedgerRow>();
+
+/**
+ * Rows drawn at first. A batch may hold thousands of units; drawing them all makes every sort and
+ * every one-second poll redraw thousands of rows, so the rest come on request (and all of them
+ * for printing).
+ */
+const FIRST_ROWS = 250;
 const verdictOrder = { out_of_tolerance: 0, inconclusive: 1, within_tolerance: 2 } as const;
 
 type Props = { rows: LedgerRow[]; unitHref: (id: string) => string; toleranceCents: number | null };
@@ -22,6 +30,14 @@ type Props = { rows: LedgerRow[]; unitHref: (id: string) => string; toleranceCen
 export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
   const [filter, setFilter] = useState<LedgerFilter>("all");
   const [sorting, setSorting] = useState<SortingState>([]);
+  const [limit, setLimit] = useState(FIRST_ROWS);
+
+  // The printed ledger is the whole ledger: draw every row before the browser lays out the print.
+  useEffect(() => {
+    const showAll = () => flushSync(() => setLimit(Number.POSITIVE_INFINITY));
+    window.addEventListener("beforeprint", showAll);
+    return () => window.removeEventListener("beforeprint", showAll);
+  }, []);
 
   const columns = useMemo(
     () => [
@@ -132,7 +148,7 @@ export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
               ))}
             </thead>
             <tbody className="divide-y divide-line">
-              {table.getRowModel().rows.map((row) => (
+              {table.getRowModel().rows.slice(0, limit).map((row) => (
                 <tr key={row.id} className={clsx(row.original.verdict === "out_of_tolerance" && "bg-rust-50/60")}>
                   {row.getVisibleCells().map((cell) => {
                     const numeric = (cell.column.columnDef.meta as { numeric?: boolean } | undefined)?.numeric;
@@ -146,6 +162,19 @@ export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
               ))}
             </tbody>
           </table>
+          {data.length > limit ? (
+            <div className="no-print mt-3 flex flex-wrap items-center gap-3 text-caption text-ink-soft">
+              <span>
+                Showing {limit} of {data.length} units{sorting.length ? " (sorted)" : ""}.
+              </span>
+              <button type="button" className="font-medium text-steel-700 underline underline-offset-2" onClick={() => setLimit((n) => n + FIRST_ROWS)}>
+                Show {Math.min(FIRST_ROWS, data.length - limit)} more
+              </button>
+              <button type="button" className="font-medium text-steel-700 underline underline-offset-2" onClick={() => setLimit(Number.POSITIVE_INFINITY)}>
+                Show all {data.length}
+              </button>
+            </div>
+          ) : null}
         </div>
       )}
     </div>
