@@ -4,7 +4,7 @@
  * a Blob with the session cookie and decoded at its own sample rate, so the spectrogram reaches
  * the upper partials (wavesurfer decodes at 8 kHz unless told otherwise).
  */
-import { useEffect, useRef, useState } from "react";
+import { useEffect, useRef, useState, type KeyboardEvent } from "react";
 import WaveSurfer from "wavesurfer.js";
 import HoverPlugin from "wavesurfer.js/dist/plugins/hover.esm.js";
 import RegionsPlugin from "wavesurfer.js/dist/plugins/regions.esm.js";
@@ -34,6 +34,7 @@ export function Waveform({
   onsetsS,
   sampleRate,
   durationS,
+  highestPartialHz,
 }: {
   workshopId: string;
   strikeId: string;
@@ -42,6 +43,8 @@ export function Waveform({
   /** The file's sample rate, Hz (decoding rate for the spectrogram); null when not known. */
   sampleRate: number | null;
   durationS: number | null;
+  /** Highest reported partial, Hz: the spectrogram shows up to half as much again above it. */
+  highestPartialHz?: number | null;
 }) {
   const audio = useStrikeAudio(workshopId, strikeId);
   const waveRef = useRef<HTMLDivElement>(null);
@@ -141,7 +144,8 @@ export function Waveform({
           fftSamples: 1024,
           windowFunc: "hann",
           scale: "linear",
-          frequencyMax: Math.min(nyquist, 12_000),
+          // Up to 1.5 × the highest partial (at least 2 kHz): the partials fill the view instead of its bottom strip.
+          frequencyMax: Math.min(nyquist, highestPartialHz ? Math.max(2000, Math.ceil((highestPartialHz * 1.5) / 500) * 500) : 12_000),
           colorMap: spectrogramColourMap,
           // White point −20 dB, 70 dB of range: the ring shows, the room noise stays pale.
           gainDB: 20,
@@ -152,7 +156,7 @@ export function Waveform({
       spectroPluginRef.current.destroy();
       spectroPluginRef.current = null;
     }
-  }, [showSpectrogram, ready, sampleRate]);
+  }, [showSpectrogram, ready, sampleRate, highestPartialHz]);
 
   useEffect(() => {
     const ws = wsRef.current;
@@ -168,6 +172,23 @@ export function Waveform({
   }
 
   const togglePlay = () => void wsRef.current?.playPause();
+
+  // The waveform is a slider for the keyboard: arrows move 10 ms (Shift: 100 ms), PageUp/PageDown
+  // 1 s, Home/End to the ends, space plays and pauses.
+  const onKey = (event: KeyboardEvent) => {
+    const ws = wsRef.current;
+    if (!ws || !ready) return;
+    const step = event.shiftKey ? 0.1 : 0.01;
+    const now = ws.getCurrentTime();
+    const to: Record<string, number> = { ArrowLeft: now - step, ArrowRight: now + step, ArrowDown: now - step, ArrowUp: now + step, PageDown: now - 1, PageUp: now + 1, Home: 0, End: duration };
+    if (event.key === " ") {
+      event.preventDefault();
+      togglePlay();
+    } else if (event.key in to) {
+      event.preventDefault();
+      ws.setTime(Math.max(0, Math.min(duration, to[event.key])));
+    }
+  };
 
   return (
     <div className="flex flex-col gap-3">
@@ -202,7 +223,19 @@ export function Waveform({
             <Spinner label={audio.isPending ? "Loading the recording…" : "Drawing the waveform…"} />
           </div>
         ) : null}
-        <div ref={waveRef} data-testid="waveform" aria-label="Waveform of the recording; click to move the play position" />
+        <div
+          ref={waveRef}
+          data-testid="waveform"
+          tabIndex={0}
+          role="slider"
+          aria-label="Play position in the recording (arrow keys move it, space plays)"
+          aria-valuemin={0}
+          aria-valuemax={Number(duration.toFixed(3))}
+          aria-valuenow={Number(time.toFixed(3))}
+          aria-valuetext={`${time.toFixed(3)} s of ${duration.toFixed(3)} s`}
+          onKeyDown={onKey}
+          className="rounded-control"
+        />
       </div>
       {decodeError ? (
         <Alert tone="error" title="The browser could not decode this recording">

@@ -65,6 +65,10 @@ function StrikeView({ workshopId, strike }: { workshopId: string; strike: Strike
     [current, labels, unit.data],
   );
   const busy = strike.state === "queued" || strike.state === "analysing";
+  const highestPartialHz = useMemo(() => {
+    const all = strikes.flatMap((s) => s.partials.map((p) => p.frequencyHz));
+    return all.length ? Math.max(...all) : null;
+  }, [strikes]);
 
   return (
     <div className="tl-strike-page flex flex-col gap-6">
@@ -110,7 +114,14 @@ function StrikeView({ workshopId, strike }: { workshopId: string; strike: Strike
 
       <Panel aria-labelledby="waveform-heading">
         <h2 id="waveform-heading" className="mb-3 text-title font-semibold">Recording</h2>
-        <Waveform workshopId={workshopId} strikeId={strike.id} onsetsS={onsets} sampleRate={strike.sampleRate} durationS={strike.durationS} />
+        <Waveform
+          workshopId={workshopId}
+          strikeId={strike.id}
+          onsetsS={onsets}
+          sampleRate={strike.sampleRate}
+          durationS={strike.durationS}
+          highestPartialHz={highestPartialHz}
+        />
       </Panel>
 
       {result ? <WarningsList warnings={result.warnings} /> : null}
