@@ -15,6 +15,6 @@ export default defineConfig({
     pool: "forks",
     testTimeout: 60_000,
     hookTimeout: 120_000,
-    include: ["tests/**/*.test.ts", "shared/**/*.test.ts", "server/**/*.test.ts"],
+    include: ["tests/**/*.test.ts", "shared/**/*.test.ts", "server/**/*.test.ts", "src/**/*.test.ts"],
   },
 });
