@@ -116,8 +116,9 @@ function buildData(deps: CertificateDeps, actor: Actor & { name: string; role: R
     statementOfConformity: defaultStatementOfConformity(ev.verdict, spec.decisionRule, spec.name, spec.version),
     authorisedBy: { name: actor.name, role: roleLabels[actor.role] },
     authorisedAt: ident.issuedAt.toISOString(),
-    // Clinical and laboratory forks: the spec's name or description says so (the family is "tuning fork").
-    flags: { measurementOnlyCaution: needsMeasurementOnlyCaution(`${spec.name} ${spec.description}`) },
+    // Any fork may end up in a clinic or a laboratory, so every fork certificate states that it records a
+    // measurement only; other families get it when their spec's name says clinical or laboratory use.
+    flags: { measurementOnlyCaution: spec.family === "tuning_fork" || needsMeasurementOnlyCaution(spec.name) },
   };
   return { data, evaluation: ev };
 }
