@@ -31,7 +31,8 @@ describe("a certificate: issued by qa, mailed with its PDF, verified signed out"
     await server?.stop();
   });
 
-  it("qa is told certificates wait for the release, then disposes and releases BTW-2611", async () => {
+  // Waits on the real analysis pool, which is slower when other test servers run at once.
+  it("qa is told certificates wait for the release, then disposes and releases BTW-2611", { timeout: 200_000 }, async () => {
     const { page } = browser;
     await signInThroughForm(page, server.baseUrl, demo.qa);
     await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();

@@ -21,7 +21,7 @@ describe("specifications, a new batch and the workshop settings", () => {
     await server?.stop();
   });
 
-  it("qa sees the open batches on the dashboard", async () => {
+  it("qa sees the open batches on the dashboard", { timeout: 200_000 }, async () => {
     const { page } = browser;
     await signInThroughForm(page, server.baseUrl, demo.qa);
     await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
@@ -32,7 +32,7 @@ describe("specifications, a new batch and the workshop settings", () => {
     // The seeded strikes are analysed at start; the queue lists the two forks out of tolerance.
     const queue = page.getByRole("list", { name: "Units awaiting review" });
     await queue.getByRole("link", { name: "F-0004" }).waitFor({ timeout: 90_000 });
-    await queue.getByRole("link", { name: "F-0008" }).waitFor();
+    await queue.getByRole("link", { name: "F-0008" }).waitFor({ timeout: 90_000 });
     await screenshot(page, "e2e-dashboard-qa");
   });
 

@@ -17,6 +17,8 @@ export function useReviewQueue(workshopId: string, openBatches: BatchSummary[]) 
     queries: needing.map((b) => ({
       queryKey: batchDetailKey(workshopId, b.id),
       queryFn: () => api.get<BatchDetail>(`/api/batches/${encodeURIComponent(b.id)}`),
+      // Same pace as the dashboard counts, so the list follows them as analyses finish.
+      refetchInterval: 10_000,
     })),
     combine: (results) => ({
       pending: results.some((r) => r.isPending),
