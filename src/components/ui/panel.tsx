@@ -40,5 +40,5 @@ export function Badge({ children, tone = "neutral" }: { children: ReactNode; ton
     rust: "bg-rust-50 text-rust-700",
     moss: "bg-moss-50 text-moss-600",
   } as const;
-  return <span className={clsx("inline-flex items-center rounded-full px-2.5 py-0.5 text-caption font-medium", tones[tone])}>{children}</span>;
+  return <span className={clsx("inline-flex items-center whitespace-nowrap rounded-full px-2.5 py-0.5 text-caption font-medium", tones[tone])}>{children}</span>;
 }

@@ -27,7 +27,7 @@ export function DashboardOverview({ workshopId, batchHref, unitHref, noBatchesAc
   const { openBatches, awaitingReview, released } = dashboard.data;
 
   return (
-    <div className="grid items-start gap-6 lg:grid-cols-[1fr_20rem]">
+    <div className="grid items-start gap-6 lg:grid-cols-[1fr_22rem]">
       <Panel aria-labelledby="open-heading">
         <h2 id="open-heading" className="text-title font-semibold">
           Open batches
@@ -87,14 +87,14 @@ export function DashboardOverview({ workshopId, batchHref, unitHref, noBatchesAc
           ) : queue.items.length > 0 ? (
             <ul aria-label="Units awaiting review" className="mt-3 divide-y divide-line">
               {queue.items.map(({ batch, row }) => (
-                <li key={row.id} className="flex items-center justify-between gap-2 py-2 text-caption">
-                  <span>
+                <li key={row.id} className="flex flex-wrap items-center justify-between gap-x-3 gap-y-1 py-2 text-caption">
+                  <span className="whitespace-nowrap">
                     <Link to={unitHref(row.id)} className="font-semibold text-steel-700 underline underline-offset-2">
                       {row.serial}
                     </Link>{" "}
                     <span className="text-ink-faint">in {batch.code}</span>
                   </span>
-                  <span className="flex items-center gap-2">
+                  <span className="flex items-center gap-2 whitespace-nowrap">
                     <span className="tabular-nums">{formatCents(row.deviationCents)}</span>
                     <VerdictBadge verdict={row.verdict} />
                   </span>
