@@ -296,7 +296,31 @@ function makePlot(s: Spectrum, humHz: number[], kept: RefinedPartial[]): StrikeP
     magnitudeDb.push(round(10 * Math.log10(s.power[best] + 1e-30) + gain, 2));
     noiseFloorDb.push(round(10 * Math.log10(fl / (hi - lo) + 1e-30) + gain, 2));
   }
-  return { spectrum: { frequencyHz, magnitudeDb, noiseFloorDb }, humHz: humHz.sort((a, b) => a - b), envelopes: kept.map((k) => k.envelope) };
+  return { spectrum: { frequencyHz, magnitudeDb, noiseFloorDb }, bands: kept.map((k) => band(s, k.partial.frequencyHz, gain)), humHz: humHz.sort((a, b) => a - b), envelopes: kept.map((k) => k.envelope) };
+}
+
+/** Cents either side of a partial kept at full resolution, so a zoomed spectrum can show a doublet. */
+const BAND_CENTS = 200;
+const BAND_POINTS = 400;
+
+/** The spectrum at full bin resolution within ±BAND_CENTS of fHz, peak-bucketed to BAND_POINTS at most. */
+function band(s: Spectrum, fHz: number, gain: number): { frequencyHz: number[]; magnitudeDb: number[] } {
+  const k = 2 ** (BAND_CENTS / 1200);
+  const binHz = s.sampleRate / s.size;
+  const lo = Math.max(1, Math.floor(fHz / k / binHz));
+  const hi = Math.min(s.power.length - 1, Math.ceil((fHz * k) / binHz));
+  const per = Math.max(1, (hi - lo + 1) / BAND_POINTS);
+  const frequencyHz: number[] = [];
+  const magnitudeDb: number[] = [];
+  for (let b = lo; b <= hi; ) {
+    const end = Math.min(hi + 1, Math.max(b + 1, Math.floor(lo + (frequencyHz.length + 1) * per)));
+    let best = b;
+    for (let i = b; i < end; i++) if (s.power[i] > s.power[best]) best = i;
+    frequencyHz.push(round(best * binHz, 4));
+    magnitudeDb.push(round(10 * Math.log10(s.power[best] + 1e-30) + gain, 2));
+    b = end;
+  }
+  return { frequencyHz, magnitudeDb };
 }
 
 function round(v: number, digits: number): number {

@@ -63,6 +63,8 @@ export type Partial = z.infer<typeof partialSchema>;
 export const plotSchema = z.object({
   /** Spectrum of the analysed segment: frequency (Hz) and magnitude (dBFS), same length. */
   spectrum: z.object({ frequencyHz: z.array(z.number()), magnitudeDb: z.array(z.number()), noiseFloorDb: z.array(z.number()) }),
+  /** Per partial (same order as partials): the spectrum at full resolution within ±200 cents, for zooming in. */
+  bands: z.array(z.object({ frequencyHz: z.array(z.number()), magnitudeDb: z.array(z.number()) })).optional(),
   /** Frequencies recognised as mains hum and ignored, Hz. */
   humHz: z.array(z.number()),
   /** Per partial (same order as partials): envelope (dBFS) against time (s from the file start). */

@@ -38,7 +38,7 @@ function plotData(full: Full, columns: number, lo: number, hi: number, log: bool
   return [keep.map((i) => full.f[i]), keep.map((i) => full.mag[i]), keep.map((i) => full.floor[i])];
 }
 
-export function SpectrumChart({ spectrum, humHz, rows: rowsIn }: { spectrum: StrikePlot["spectrum"]; humHz: number[]; rows: PartialRow[] }) {
+export function SpectrumChart({ spectrum, bands, humHz, rows: rowsIn }: { spectrum: StrikePlot["spectrum"]; bands?: StrikePlot["bands"]; humHz: number[]; rows: PartialRow[] }) {
   const [scale, setScale] = useState<Scale>("log");
   const [focus, setFocus] = useState<string>("all");
   const wrapRef = useRef<HTMLDivElement>(null);
@@ -63,12 +63,19 @@ export function SpectrumChart({ spectrum, humHz, rows: rowsIn }: { spectrum: Str
 
   // A log axis cannot show 0 Hz; drop non-positive frequencies for both views to keep one dataset.
   const full = useMemo<Full>(() => {
-    const keep: number[] = [];
-    spectrum.frequencyHz.forEach((f, i) => {
-      if (f > 0) keep.push(i);
-    });
-    return { f: keep.map((i) => spectrum.frequencyHz[i]), mag: keep.map((i) => spectrum.magnitudeDb[i]), floor: keep.map((i) => spectrum.noiseFloorDb[i] ?? null) };
-  }, [spectrum]);
+    // The overview series plus the full-resolution bands around each partial (when the server sent
+    // them): the pixel bucketing keeps the overview as it was, and a zoom shows every bin near a partial.
+    const points = spectrum.frequencyHz.map((f, i) => ({ f, mag: spectrum.magnitudeDb[i], floor: spectrum.noiseFloorDb[i] ?? null }));
+    const floorNear = (f: number) => {
+      let j = 0;
+      while (j < points.length - 1 && points[j + 1].f <= f) j++;
+      return points[j]?.floor ?? null;
+    };
+    for (const b of bands ?? []) b.frequencyHz.forEach((f, i) => points.push({ f, mag: b.magnitudeDb[i], floor: floorNear(f) }));
+    points.sort((a, b) => a.f - b.f);
+    const kept = points.filter((p, i) => p.f > 0 && (i === 0 || p.f !== points[i - 1].f));
+    return { f: kept.map((p) => p.f), mag: kept.map((p) => p.mag), floor: kept.map((p) => p.floor) };
+  }, [spectrum, bands]);
 
   const fMax = full.f.length ? full.f[full.f.length - 1] : 1;
   // On the log axis, start at a power of ten (at least 10 Hz) so the ticks fall on 10, 100, 1k, 10k.
@@ -163,8 +170,8 @@ export function SpectrumChart({ spectrum, humHz, rows: rowsIn }: { spectrum: Str
     };
   }, [full, rows, humHz, scale, fLo, fMax]);
 
-  // Zoom to one partial from the keyboard: ±200 cents around it (the server's series has buckets
-  // of about 25 Hz, so a narrower band would hold too few points to draw), or back to the whole spectrum.
+  // Zoom to one partial from the keyboard: ±200 cents around it (the band the server sends at full
+  // resolution), or back to the whole spectrum.
   const zoomTo = (value: string) => {
     setFocus(value);
     const u = chartRef.current;

@@ -155,7 +155,7 @@ function StrikeView({ workshopId, strike }: { workshopId: string; strike: Strike
                   <h2 id="spectrum-heading" className="mb-1 text-title font-semibold">Spectrum</h2>
                   <p className="mb-3 text-caption text-ink-faint">Magnitude of the analysed segment after the strike at {fixed(current.onsetS, 2)} s. Red lines: the reported partials.</p>
                   {current.plot ? (
-                    <SpectrumChart spectrum={current.plot.spectrum} humHz={current.plot.humHz} rows={rows} />
+                    <SpectrumChart spectrum={current.plot.spectrum} bands={current.plot.bands} humHz={current.plot.humHz} rows={rows} />
                   ) : (
                     <p className="text-ink-soft">This strike was analysed before plot series were stored; analyse it again to see its spectrum.</p>
                   )}
