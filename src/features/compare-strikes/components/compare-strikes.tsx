@@ -13,11 +13,11 @@ import { EmptyState } from "@/components/ui/panel";
 import { Spinner } from "@/components/ui/spinner";
 import { useMe } from "@/lib/auth";
 import { formatDateTime } from "@/lib/format";
+import { decimateIndices } from "@/lib/decimate";
+import { frequencyTicks } from "@/lib/ticks";
+import { useWidth } from "@/lib/use-width";
+import { UplotChart, type ChartOptions } from "@/components/charts/uplot-chart";
 import { useStrikes } from "../api/get-strike";
-import { decimateIndices } from "../lib/decimate";
-import { frequencyTicks } from "../lib/ticks";
-import { useWidth } from "../lib/use-width";
-import { UplotChart, type ChartOptions } from "./uplot-chart";
 
 /** Distinct hues from the theme that stay apart in print; the dash pattern repeats the distinction. */
 const palette = ["#1f5d65", "#9c3526", "#8a5a0f", "#2f6b3c", "#5b4a8a", "#4a5558"] as const;

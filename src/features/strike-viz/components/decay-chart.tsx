@@ -9,11 +9,11 @@
 import { useMemo } from "react";
 import type uPlot from "uplot";
 import type { Partial, StrikePlot } from "@shared/schemas/analysis";
+import { decimateIndices } from "@/lib/decimate";
+import { useWidth } from "@/lib/use-width";
+import { UplotChart, type ChartOptions } from "@/components/charts/uplot-chart";
 import { chartColours } from "../lib/colours";
-import { decimateIndices } from "../lib/decimate";
 import { fixed } from "../lib/format";
-import { useWidth } from "../lib/use-width";
-import { UplotChart, type ChartOptions } from "./uplot-chart";
 
 /** 20·log10(e): dB per neper of amplitude. */
 export const DB_PER_NEPER = 20 * Math.LOG10E;

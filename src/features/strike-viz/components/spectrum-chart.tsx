@@ -7,16 +7,17 @@
  * The chart never holds more points than it has pixel columns: the server's series is bucketed
  * to the plot width (keeping each bucket's peak), and again for the visible band after a zoom.
  */
-import { useEffect, useMemo, useRef, useState } from "react";
+import { useMemo, useRef, useState } from "react";
 import type uPlot from "uplot";
 import type { StrikePlot } from "@shared/schemas/analysis";
 import { Button } from "@/components/ui/button";
+import { decimateIndices } from "@/lib/decimate";
+import { frequencyTicks } from "@/lib/ticks";
+import { useWidth } from "@/lib/use-width";
+import { UplotChart, type ChartOptions } from "@/components/charts/uplot-chart";
 import { chartColours } from "../lib/colours";
-import { decimateIndices } from "../lib/decimate";
 import { formatHz } from "../lib/format";
-import { frequencyTicks } from "../lib/ticks";
 import type { PartialRow } from "../lib/partial-rows";
-import { UplotChart, type ChartOptions } from "./uplot-chart";
 
 type Scale = "linear" | "log";
 
@@ -41,25 +42,14 @@ function plotData(full: Full, columns: number, lo: number, hi: number, log: bool
 export function SpectrumChart({ spectrum, bands, humHz, rows: rowsIn }: { spectrum: StrikePlot["spectrum"]; bands?: StrikePlot["bands"]; humHz: number[]; rows: PartialRow[] }) {
   const [scale, setScale] = useState<Scale>("log");
   const [focus, setFocus] = useState<string>("all");
-  const wrapRef = useRef<HTMLDivElement>(null);
+  const [wrapRef, width] = useWidth<HTMLDivElement>();
   const chartRef = useRef<uPlot | null>(null);
   const resetRef = useRef<() => void>(() => undefined);
-  const [width, setWidth] = useState(0);
   // Rebuild the chart only when what it draws changes (labels, frequencies), not when the table's
   // targets arrive with the unit's evaluation.
   const markerKey = rowsIn.map((r) => `${r.index}:${r.label}:${r.partial.frequencyHz}`).join("|");
   // eslint-disable-next-line react-hooks/exhaustive-deps
   const rows = useMemo(() => rowsIn, [markerKey]);
-
-  useEffect(() => {
-    const el = wrapRef.current;
-    if (!el) return;
-    const update = () => setWidth(Math.floor(el.clientWidth));
-    update();
-    const observer = new ResizeObserver(update);
-    observer.observe(el);
-    return () => observer.disconnect();
-  }, []);
 
   // A log axis cannot show 0 Hz; drop non-positive frequencies for both views to keep one dataset.
   const full = useMemo<Full>(() => {
