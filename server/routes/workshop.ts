@@ -5,7 +5,7 @@ import { z } from "zod";
 import { auditEvent, user, workshopProfile } from "../db/schema.ts";
 import { requirePermission, userOf, workshopOf } from "../middleware/guards.ts";
 import { audit } from "../services/audit.ts";
-import { listBatches } from "../services/batches.ts";
+import { getBatch, listBatches } from "../services/batches.ts";
 import type { AppDeps } from "../app.ts";
 
 export const workshopProfileSchema = z.object({
@@ -38,11 +38,13 @@ export function workshopRoutes({ db, readCache }: AppDeps) {
   r.get("/dashboard", requirePermission("batch", "read"), (req, res) => {
     const w = workshopOf(req).id;
     const batches = readCache.get(`batches:${w}`, () => listBatches(db, w));
-    res.json({
-      openBatches: batches.filter((b) => b.state !== "released"),
-      awaitingReview: batches.reduce((n, b) => n + (b.state !== "released" ? b.outOfTolerance + b.inconclusive : 0), 0),
-      released: batches.filter((b) => b.state === "released").length,
-    });
+    const openBatches = batches.filter((b) => b.state !== "released");
+    // Units QA still has to decide on: a verdict other than within tolerance and no disposition that closes them.
+    const awaitingReview = openBatches.reduce((n, b) => {
+      const detail = readCache.get(`batch:${w}:${b.id}`, () => getBatch(db, w, b.id));
+      return n + detail.rows.filter((r) => r.open && r.verdict !== null && r.verdict !== "within_tolerance" && r.pendingStrikes === 0).length;
+    }, 0);
+    res.json({ openBatches, awaitingReview, released: batches.length - openBatches.length });
   });
 
   r.get("/audit", requirePermission("audit", "read"), (req, res) => {

@@ -209,3 +209,20 @@ describe("disposition and release", () => {
     expect(actions).toEqual(expect.arrayContaining(["spec.create", "spec.version", "batch.create", "strike.upload", "unit.evaluate", "unit.disposition", "batch.release"]));
   });
 });
+
+describe("dashboard", () => {
+  it("counts the units QA still has to decide on, not those already disposed of", async () => {
+    const fresh = await startTestApp({ DEMO_STRIKES: "1" });
+    try {
+      await fresh.runtime.queue.drained();
+      const qa = await fresh.as("qa");
+      expect((await qa.get("/api/dashboard")).body.awaitingReview).toBe(2); // F-0004 and F-0008 of the demo batch
+      const batch = (await qa.get("/api/batches")).body.batches.find((b: { code: string }) => b.code === "BTW-2611");
+      const row = (await qa.get(`/api/batches/${batch.id}`)).body.rows.find((r: { serial: string }) => r.serial === "F-0004");
+      expect((await qa.post(`/api/units/${row.id}/dispositions`).set("Origin", ORIGIN).send({ decision: "scrap", reason: "Too flat to rework." })).status).toBe(201);
+      expect((await qa.get("/api/dashboard")).body.awaitingReview).toBe(1);
+    } finally {
+      await fresh.close();
+    }
+  });
+});
