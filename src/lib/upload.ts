@@ -3,6 +3,7 @@
  * uses XMLHttpRequest (upload.onprogress); errors become the same `ApiError` as the JSON client's.
  */
 import { errorBodySchema } from "@shared/errors";
+import type { Support } from "@shared/schemas/spec";
 import { ApiError, fallbackMessage } from "./api-client";
 
 export type UploadProgress = { loaded: number; total: number };
@@ -36,4 +37,16 @@ export function uploadForm<T>(url: string, form: FormData, onProgress?: (progres
     signal?.addEventListener("abort", () => xhr.abort(), { once: true });
     xhr.send(form);
   });
+}
+
+/** One WAV strike and the conditions it was recorded under, as the unit and batch uploads take it. */
+export type StrikeUploadInput = { file: File; temperatureC?: number | null; support?: Support | null; onProgress?: (progress: UploadProgress) => void };
+
+/** The multipart body of a strike upload: optional temperature (°C) and support, then the audio. */
+export function strikeUploadForm({ file, temperatureC, support }: StrikeUploadInput): FormData {
+  const form = new FormData();
+  if (temperatureC != null) form.append("temperatureC", String(temperatureC));
+  if (support) form.append("support", support);
+  form.append("audio", file, file.name);
+  return form;
 }

@@ -2,16 +2,15 @@
  * Upload one or many WAV strikes to a unit: each file is its own request with its own progress
  * bar; once accepted, the strike appears in the list below as queued and moves on by polling.
  */
-import clsx from "clsx";
-import { useRef, useState, type DragEvent, type ReactNode } from "react";
-import { supportLabels, supports, type Support } from "@shared/schemas/spec";
-import { Button } from "@/components/ui/button";
-import { InputField, SelectField } from "@/components/ui/field";
+import { useRef, useState, type ReactNode } from "react";
+import type { Support } from "@shared/schemas/spec";
+import { InputField } from "@/components/ui/field";
+import { SupportSelect } from "@/components/upload/support-select";
+import { UploadList, useUploadItems } from "@/components/upload/upload-list";
+import { WavDropArea } from "@/components/upload/wav-drop-area";
 import { isApiError } from "@/lib/api-client";
 import { formatBytes } from "@/lib/format";
 import { useUploadStrike } from "../api/upload-strike";
-
-type Item = { key: string; name: string; size: number; progress: number; state: "waiting" | "uploading" | "accepted" | "refused"; error?: string };
 
 type Props = {
   workshopId: string;
@@ -24,15 +23,11 @@ type Props = {
 
 export function StrikeUpload({ workshopId, unitId, disabled = false, disabledReason, recorder }: Props) {
   const upload = useUploadStrike(workshopId, unitId);
-  const [items, setItems] = useState<Item[]>([]);
-  const [dragging, setDragging] = useState(false);
+  const { items, patch, enqueue } = useUploadItems();
   const [temperature, setTemperature] = useState("");
   const [temperatureError, setTemperatureError] = useState<string | null>(null);
   const [support, setSupport] = useState<Support | "">("");
-  const input = useRef<HTMLInputElement>(null);
   const queue = useRef<Promise<void>>(Promise.resolve());
-
-  const patch = (key: string, change: Partial<Item>) => setItems((all) => all.map((item) => (item.key === key ? { ...item, ...change } : item)));
 
   const add = (files: File[]) => {
     if (disabled || files.length === 0) return;
@@ -43,8 +38,7 @@ export function StrikeUpload({ workshopId, unitId, disabled = false, disabledRea
       return;
     }
     setTemperatureError(null);
-    const fresh: Item[] = files.map((file, i) => ({ key: `${Date.now()}-${i}-${file.name}`, name: file.name, size: file.size, progress: 0, state: "waiting" }));
-    setItems((all) => [...fresh, ...all]);
+    const fresh = enqueue(files);
     // Files go one after the other (the server takes one file per request); the chain keeps order
     // across several drops.
     fresh.forEach((item, i) => {
@@ -65,12 +59,6 @@ export function StrikeUpload({ workshopId, unitId, disabled = false, disabledRea
     });
   };
 
-  const onDrop = (event: DragEvent) => {
-    event.preventDefault();
-    setDragging(false);
-    add(Array.from(event.dataTransfer.files));
-  };
-
   return (
     <div className="flex flex-col gap-4">
       {disabled && disabledReason ? <p className="text-ink-soft">{disabledReason}</p> : null}
@@ -86,74 +74,21 @@ export function StrikeUpload({ workshopId, unitId, disabled = false, disabledRea
           hint="Frequencies are corrected to the specification's reference temperature."
           onChange={(e) => setTemperature(e.target.value)}
         />
-        <SelectField label="Support condition (optional)" value={support} disabled={disabled} onChange={(e) => setSupport(e.target.value as Support | "")}>
-          <option value="">Not recorded</option>
-          {supports.map((s) => (
-            <option key={s} value={s}>
-              {supportLabels[s]}
-            </option>
-          ))}
-        </SelectField>
+        <SupportSelect label="Support condition (optional)" value={support} onChange={setSupport} disabled={disabled} />
       </div>
-      <div
-        onDragOver={(event) => {
-          event.preventDefault();
-          if (!disabled) setDragging(true);
-        }}
-        onDragLeave={() => setDragging(false)}
-        onDrop={onDrop}
-        className={clsx(
-          "flex flex-col items-center gap-3 rounded-panel border-2 border-dashed px-6 py-8 text-center",
-          dragging ? "border-steel-500 bg-steel-50" : "border-line-strong bg-canvas",
-          disabled && "opacity-60",
-        )}
-      >
-        <p className="text-lead font-semibold">Drop WAV recordings of this unit here</p>
-        <p className="text-caption text-ink-soft">One strike or several per file; up to 100 MB each.</p>
-        <input
-          ref={input}
-          type="file"
-          accept=".wav,audio/wav,audio/x-wav,audio/wave"
-          multiple
-          className="sr-only"
-          aria-label="WAV recordings for this unit"
-          disabled={disabled}
-          onChange={(event) => {
-            add(Array.from(event.target.files ?? []));
-            event.target.value = "";
-          }}
-        />
-        <div className="flex flex-wrap justify-center gap-2">
-          <Button variant="secondary" onClick={() => input.current?.click()} disabled={disabled}>
-            Choose files…
-          </Button>
-        </div>
+      <WavDropArea title="Drop WAV recordings of this unit here" hint="One strike or several per file; up to 100 MB each." inputLabel="WAV recordings for this unit" disabled={disabled} onFiles={add}>
         {recorder ? <div className="w-full max-w-xl text-left">{recorder((file) => add([file]), disabled)}</div> : null}
-      </div>
-      {items.length > 0 ? (
-        <ul aria-label="Uploads" className="divide-y divide-line rounded-control border border-line">
-          {items.map((item) => (
-            <li key={item.key} className="flex flex-wrap items-center justify-between gap-3 px-4 py-3">
-              <span className="min-w-0">
-                <span className="block truncate font-medium">{item.name}</span>
-                {item.state === "refused" ? (
-                  <span role="alert" className="block text-caption text-rust-700">
-                    {item.error}
-                  </span>
-                ) : (
-                  <span className="block text-caption text-ink-soft">
-                    {formatBytes(item.size)} ·{" "}
-                    {item.state === "waiting" ? "waiting…" : item.state === "uploading" ? `uploading ${Math.round(item.progress * 100)} %` : "uploaded; see its analysis below"}
-                  </span>
-                )}
-              </span>
-              {item.state === "uploading" || item.state === "waiting" ? (
-                <progress className="h-2 w-32 accent-steel-600" max={1} value={item.progress} aria-label={`Upload of ${item.name}`} />
-              ) : null}
-            </li>
-          ))}
-        </ul>
-      ) : null}
+      </WavDropArea>
+      <UploadList
+        label="Uploads"
+        items={items}
+        status={(item) => (
+          <span className="block text-caption text-ink-soft">
+            {formatBytes(item.size)} ·{" "}
+            {item.state === "waiting" ? "waiting…" : item.state === "uploading" ? `uploading ${Math.round(item.progress * 100)} %` : "uploaded; see its analysis below"}
+          </span>
+        )}
+      />
     </div>
   );
 }
