@@ -1,8 +1,8 @@
 import { histogram } from "@shared/spc";
 import { formatCents } from "@/lib/format";
+import { useWidth } from "@/lib/use-width";
 import { colours } from "../lib/colours";
 import { linearScale, niceTicks } from "../lib/scale";
-import { useElementWidth } from "../lib/use-element-width";
 
 const M = { top: 28, right: 56, bottom: 44, left: 64 };
 
@@ -19,7 +19,7 @@ function niceWidth(span: number, target: number): number {
  * Bins are anchored at 0 so the limits fall on or between edges symmetrically.
  */
 export function DeviationHistogram({ values, toleranceCents, height = 240 }: { values: number[]; toleranceCents: number | null; height?: number }) {
-  const [ref, width] = useElementWidth<HTMLDivElement>(480);
+  const [ref, width] = useWidth<HTMLDivElement>({ initial: 480, min: 280 });
   const tol = toleranceCents && toleranceCents > 0 ? toleranceCents : null;
   const lo = Math.min(...values, tol ? -tol : 0);
   const hi = Math.max(...values, tol ? tol : 0);

@@ -1,9 +1,9 @@
 import { useState } from "react";
 import type { IndividualsChart as Chart, NelsonResult } from "@shared/spc";
 import { formatCents } from "@/lib/format";
+import { useWidth } from "@/lib/use-width";
 import { colours } from "../lib/colours";
 import { extent, linearScale, niceTicks } from "../lib/scale";
-import { useElementWidth } from "../lib/use-element-width";
 import type { MeasuredUnit } from "./batch-charts";
 
 export const MARGIN = { top: 16, right: 92, bottom: 44, left: 60 };
@@ -14,7 +14,7 @@ export const MARGIN = { top: 16, right: 92, bottom: 44, left: 60 };
  * beside it; hovering or focusing it names the rules.
  */
 export function IndividualsChart({ units, chart, height = 280 }: { units: MeasuredUnit[]; chart: Chart & NelsonResult; height?: number }) {
-  const [ref, width] = useElementWidth<HTMLDivElement>();
+  const [ref, width] = useWidth<HTMLDivElement>({ initial: 720, min: 280 });
   const [active, setActive] = useState<number | null>(null);
   const values = units.map((u) => u.deviationCents);
   const [lo, hi] = extent([...values, chart.ucl, chart.lcl]);

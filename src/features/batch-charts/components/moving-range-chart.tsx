@@ -1,7 +1,7 @@
 import type { IndividualsChart as Chart } from "@shared/spc";
+import { useWidth } from "@/lib/use-width";
 import { colours } from "../lib/colours";
 import { linearScale, niceTicks } from "../lib/scale";
-import { useElementWidth } from "../lib/use-element-width";
 import type { MeasuredUnit } from "./batch-charts";
 import { MARGIN } from "./individuals-chart";
 
@@ -9,7 +9,7 @@ const cents = (v: number) => `${v.toFixed(1)} ¢`;
 
 /** Moving range of two |xᵢ − xᵢ₋₁| (cents), aligned under the individuals chart; limit 3.267·MR̄, lower limit 0. */
 export function MovingRangeChart({ units, chart, height = 170 }: { units: MeasuredUnit[]; chart: Chart; height?: number }) {
-  const [ref, width] = useElementWidth<HTMLDivElement>();
+  const [ref, width] = useWidth<HTMLDivElement>({ initial: 720, min: 280 });
   const ranges = chart.movingRanges;
   const top = Math.max(chart.mrUcl, ...ranges.map((r) => r ?? 0)) * 1.12 || 1;
   const x = linearScale([0, Math.max(1, units.length - 1)], [MARGIN.left, width - MARGIN.right]);
