@@ -9,18 +9,10 @@
  * written out independently of shared/spc.ts; Cp = (USL − LSL)/6σ̂ and Cpk = min(USL − x̄, x̄ − LSL)/3σ̂
  * as in Montgomery, Introduction to Statistical Quality Control.
  */
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Page } from "playwright-core";
-import type { BatchDetail, BatchSummary } from "../../shared/schemas/batch.ts";
-import { demo, launchBrowser, screenshot, signInThroughForm, startServer, type LaunchedBrowser, type RunningServer } from "../support/browser";
-
-async function apiGet<T>(page: Page, url: string): Promise<T> {
-  return page.evaluate(async (u) => {
-    const r = await fetch(u, { credentials: "same-origin" });
-    if (!r.ok) throw new Error(`${u} answered ${r.status}`);
-    return r.json();
-  }, url) as Promise<T>;
-}
+import { beforeAll, describe, expect, it } from "vitest";
+import type { BatchDetail } from "../../shared/schemas/batch.ts";
+import { demo, screenshot, signIn } from "../support/browser";
+import { apiGet, batchByCode, batchIdByCode, withServerAndBrowser } from "../support/e2e";
 
 /** The page's cents format: sign always, a true minus (U+2212), one decimal, then " ¢". */
 const cents = (v: number) => {
@@ -29,19 +21,13 @@ const cents = (v: number) => {
 };
 
 describe("the batch charts on the ledger", () => {
-  let server: RunningServer;
-  let browser: LaunchedBrowser;
+  const e2e = withServerAndBrowser();
   let batch: BatchDetail;
 
   beforeAll(async () => {
-    server = await startServer();
-    browser = await launchBrowser();
-    const { page } = browser;
-    await signInThroughForm(page, server.baseUrl, demo.maker);
-    await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
-    const { batches } = await apiGet<{ batches: BatchSummary[] }>(page, "/api/batches");
-    const id = batches.find((b) => b.code === "BTW-2611")?.id;
-    if (!id) throw new Error("The demo seed has no batch BTW-2611.");
+    const { page } = e2e.browser;
+    await signIn(page, e2e.server.baseUrl, demo.maker);
+    const id = await batchIdByCode(page, "BTW-2611");
     // The seed's strikes are analysed at start: wait until every unit has its deviation.
     for (let i = 0; i < 180; i++) {
       batch = await apiGet<BatchDetail>(page, `/api/batches/${id}`);
@@ -50,14 +36,9 @@ describe("the batch charts on the ledger", () => {
     }
   });
 
-  afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
-  });
-
   it("draws the individuals chart with the centre line and control limits of the ledger's deviations", async () => {
-    const { page } = browser;
-    await page.goto(`${server.baseUrl}/app/batches/${batch.id}`);
+    const { page } = e2e.browser;
+    await page.goto(`${e2e.server.baseUrl}/app/batches/${batch.id}`);
     await page.getByRole("heading", { name: `Batch ${batch.code}`, level: 1 }).waitFor();
     const chart = page.locator('[data-testid="individuals-chart"]');
     await chart.waitFor();
@@ -83,7 +64,7 @@ describe("the batch charts on the ledger", () => {
   });
 
   it("names the rule a point breaks, on hover and in text", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     const chart = page.locator('[data-testid="individuals-chart"]');
     // Independent check of rule 1 with σ = MR̄/1.128: a point beyond x̄ ± 3σ is flagged, others are not.
     const x = batch.rows.map((r) => r.deviationCents as number);
@@ -106,7 +87,7 @@ describe("the batch charts on the ledger", () => {
   });
 
   it("shows the histogram with the spec limits and capability marked low confidence", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     const tol = batch.fundamentalToleranceCents!;
     expect(tol).toBeGreaterThan(0);
     const histogram = page.locator('[data-testid="deviation-histogram"]');
@@ -138,10 +119,9 @@ describe("the batch charts on the ledger", () => {
   });
 
   it("says why the charts wait on a batch with no measured unit", async () => {
-    const { page } = browser;
-    const { batches } = await apiGet<{ batches: BatchSummary[] }>(page, "/api/batches");
-    const empty = batches.find((b) => b.code === "BTW-2612")!;
-    await page.goto(`${server.baseUrl}/app/batches/${empty.id}`);
+    const { page } = e2e.browser;
+    const empty = await batchByCode(page, "BTW-2612");
+    await page.goto(`${e2e.server.baseUrl}/app/batches/${empty.id}`);
     await page.getByRole("heading", { name: `Batch ${empty.code}`, level: 1 }).waitFor();
     await page.getByText("The charts wait for at least two measured units").waitFor();
     expect(await page.locator('[data-testid="individuals-chart"]').count()).toBe(0);

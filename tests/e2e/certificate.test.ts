@@ -7,35 +7,27 @@
 import { execFileSync } from "node:child_process";
 import { existsSync, mkdirSync, readFileSync, statSync } from "node:fs";
 import path from "node:path";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { demo, launchBrowser, screenshot, screenshotDir, signInThroughForm, startServer, type LaunchedBrowser, type RunningServer } from "../support/browser";
+import { afterAll, describe, expect, it } from "vitest";
+import { demo, launchBrowser, screenshot, screenshotDir, signIn, type LaunchedBrowser } from "../support/browser";
+import { withServerAndBrowser } from "../support/e2e";
 import { disposeAndRelease, ledgerRow, openBatch, waitForVerdicts } from "./ledger-steps";
 
 const recipient = { email: "m.testcustomer@example.org", name: "Morgan Testcustomer" };
 
 describe("a certificate: issued by qa, mailed with its PDF, verified signed out", () => {
-  let server: RunningServer;
-  let browser: LaunchedBrowser;
+  const e2e = withServerAndBrowser();
   let phone: LaunchedBrowser | undefined;
   let verifyUrl = "";
   let certificateNumber = "";
 
-  beforeAll(async () => {
-    server = await startServer();
-    browser = await launchBrowser();
-  });
-
   afterAll(async () => {
     await phone?.close();
-    await browser?.close();
-    await server?.stop();
   });
 
   // Waits on the real analysis pool, which is slower when other test servers run at once.
   it("qa is told certificates wait for the release, then disposes and releases BTW-2611", { timeout: 200_000 }, async () => {
-    const { page } = browser;
-    await signInThroughForm(page, server.baseUrl, demo.qa);
-    await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
+    const { page } = e2e.browser;
+    await signIn(page, e2e.server.baseUrl, demo.qa);
     await openBatch(page, "BTW-2611");
     await waitForVerdicts(page, Array.from({ length: 10 }, (_, i) => `F-${String(i + 1).padStart(4, "0")}`));
 
@@ -49,7 +41,7 @@ describe("a certificate: issued by qa, mailed with its PDF, verified signed out"
   });
 
   it("qa previews, then issues a certificate for F-0001 (within tolerance)", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await ledgerRow(page, "F-0001").getByText("Within tolerance").waitFor();
     await ledgerRow(page, "F-0001").getByRole("link", { name: "F-0001" }).click();
     await page.getByRole("heading", { name: "Unit F-0001", level: 1 }).waitFor();
@@ -82,11 +74,10 @@ describe("a certificate: issued by qa, mailed with its PDF, verified signed out"
   });
 
   it("the owner finds the mail in the outbox; its PDF attachment renders", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await page.getByRole("button", { name: "Sign out" }).click();
     await page.getByRole("heading", { name: "Sign in" }).waitFor();
-    await signInThroughForm(page, server.baseUrl, demo.owner);
-    await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
+    await signIn(page, e2e.server.baseUrl, demo.owner);
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Outbox" }).click();
     await page.getByRole("list", { name: "Sent mail" }).getByRole("link").filter({ hasText: `To ${recipient.email}` }).click();
     await page.getByRole("heading", { name: "Attachments" }).waitFor();
@@ -125,7 +116,7 @@ describe("a certificate: issued by qa, mailed with its PDF, verified signed out"
   });
 
   it("the owner amends it: a new number, the earlier one marked superseded there and on its verification page", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Batches" }).click();
     await page.getByRole("link", { name: "BTW-2611", exact: true }).click();
     await ledgerRow(page, "F-0001").getByRole("link", { name: "F-0001" }).click();

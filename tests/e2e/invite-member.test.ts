@@ -2,28 +2,17 @@
  * The demo owner invites a new member from the Members screen; the invitation is sent over real
  * SMTP to the server's capture server and shows up in the Outbox, where it can be opened and read.
  */
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { demo, launchBrowser, screenshot, signInThroughForm, startServer, type LaunchedBrowser, type RunningServer } from "../support/browser";
+import { describe, expect, it } from "vitest";
+import { demo, fillSignInForm, screenshot, signIn } from "../support/browser";
+import { withServerAndBrowser } from "../support/e2e";
 
 describe("an owner invites a member and finds the mail in the outbox", () => {
-  let server: RunningServer;
-  let browser: LaunchedBrowser;
+  const e2e = withServerAndBrowser();
   const invitee = "new.maker@example.com";
 
-  beforeAll(async () => {
-    server = await startServer();
-    browser = await launchBrowser();
-  });
-
-  afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
-  });
-
   it("signs in as the owner and sees Members and Outbox in the navigation", async () => {
-    const { page } = browser;
-    await signInThroughForm(page, server.baseUrl, demo.owner);
-    await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
+    const { page } = e2e.browser;
+    await signIn(page, e2e.server.baseUrl, demo.owner);
     const nav = page.getByRole("navigation", { name: "Main" });
     await nav.getByRole("link", { name: "Members" }).waitFor();
     await nav.getByRole("link", { name: "Outbox" }).waitFor();
@@ -31,7 +20,7 @@ describe("an owner invites a member and finds the mail in the outbox", () => {
   });
 
   it("rejects a malformed address in place, then sends the invitation", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Members" }).click();
     await page.getByRole("heading", { name: "Members", level: 1 }).waitFor();
     await page.getByRole("list", { name: "Members" }).getByText("maker@example.com").waitFor();
@@ -51,7 +40,7 @@ describe("an owner invites a member and finds the mail in the outbox", () => {
   });
 
   it("lists the invitation mail in the outbox and opens it", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Outbox" }).click();
     await page.getByRole("heading", { name: "Outbox", level: 1 }).waitFor();
     const sent = page.getByRole("list", { name: "Sent mail" });
@@ -64,12 +53,12 @@ describe("an owner invites a member and finds the mail in the outbox", () => {
     await article.getByText(invitee).first().waitFor();
     // The mail carries the invitation link to the public landing page.
     const body = await article.locator("pre").textContent();
-    expect(body).toMatch(new RegExp(`${server.baseUrl.replace(/[.:/]/g, "\\$&")}/invite/[^\\s]+`));
+    expect(body).toMatch(new RegExp(`${e2e.server.baseUrl.replace(/[.:/]/g, "\\$&")}/invite/[^\\s]+`));
     await screenshot(page, "e2e-outbox-message");
   });
 
   it("cancels the pending invitation, changes a role and removes a member, and the server keeps it", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Members" }).click();
     const pending = page.getByRole("list", { name: "Pending invitations" });
     await pending.getByText(invitee).waitFor();
@@ -92,7 +81,7 @@ describe("an owner invites a member and finds the mail in the outbox", () => {
   });
 
   it("a session that ended elsewhere leads back to sign-in, and back here afterwards", async () => {
-    const { page, context } = browser;
+    const { page, context } = e2e.browser;
     await context.clearCookies();
     const form = page.getByRole("form", { name: "Invite a member" });
     await form.getByLabel("E-mail address").fill("late@example.com");
@@ -100,9 +89,7 @@ describe("an owner invites a member and finds the mail in the outbox", () => {
     await page.getByRole("heading", { name: "Sign in" }).waitFor();
     expect(new URL(page.url()).searchParams.get("redirectTo")).toBe("/app/members");
 
-    await page.getByLabel("E-mail").fill(demo.owner);
-    await page.getByLabel("Password").fill(demo.password);
-    await page.getByRole("button", { name: "Sign in" }).click();
+    await fillSignInForm(page, demo.owner);
     await page.getByRole("heading", { name: "Members", level: 1 }).waitFor();
   });
 });

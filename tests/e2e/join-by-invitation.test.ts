@@ -3,30 +3,19 @@
  * the link from the e-mail (read from the outbox, as captured over SMTP), creates an account with the
  * address fixed, joins, and lands on the dashboard with the role the owner chose.
  */
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { demo, launchBrowser, screenshot, signInThroughForm, startServer, type LaunchedBrowser, type RunningServer } from "../support/browser";
+import { describe, expect, it } from "vitest";
+import { demo, screenshot, signIn } from "../support/browser";
+import { withServerAndBrowser } from "../support/e2e";
 
 describe("joining a workshop by invitation", () => {
-  let server: RunningServer;
-  let browser: LaunchedBrowser;
+  const e2e = withServerAndBrowser({ viewport: { width: 820, height: 1180 } }); // tablet, portrait
   const invitee = "quality.lead@example.com";
   let inviteLink = "";
 
-  beforeAll(async () => {
-    server = await startServer();
-    browser = await launchBrowser({ viewport: { width: 820, height: 1180 } }); // tablet, portrait
-  });
-
-  afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
-  });
-
   it("the owner invites a QA member and copies the link from the mail", async () => {
-    const { page } = browser;
-    await signInThroughForm(page, server.baseUrl, demo.owner);
-    await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
-    await page.goto(`${server.baseUrl}/app/members`);
+    const { page } = e2e.browser;
+    await signIn(page, e2e.server.baseUrl, demo.owner);
+    await page.goto(`${e2e.server.baseUrl}/app/members`);
     const form = page.getByRole("form", { name: "Invite a member" });
     await form.getByLabel("E-mail address").fill(invitee);
     await form.getByLabel("Role").selectOption("qa");
@@ -34,7 +23,7 @@ describe("joining a workshop by invitation", () => {
     await form.getByText(`Invitation sent to ${invitee}`).waitFor();
     await screenshot(page, "e2e-portrait-members");
 
-    await page.goto(`${server.baseUrl}/app/outbox`);
+    await page.goto(`${e2e.server.baseUrl}/app/outbox`);
     await page.getByRole("list", { name: "Sent mail" }).getByRole("link").filter({ hasText: `To ${invitee}` }).click();
     const text = (await page.getByRole("article").locator("pre").textContent()) ?? "";
     inviteLink = text.match(/https?:\/\/\S+\/invite\/\S+/)?.[0] ?? "";
@@ -52,7 +41,7 @@ describe("joining a workshop by invitation", () => {
   });
 
   it("the invitee sees who invited them, signs up with the address fixed, and joins", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await page.goto(inviteLink);
     await page.getByRole("heading", { name: `Join ${demo.workshopName}` }).waitFor();
     await page.getByText("Mara Ellison invited you").waitFor();
@@ -78,34 +67,33 @@ describe("joining a workshop by invitation", () => {
   });
 
   it("an accepted invitation cannot be used again", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await page.goto(inviteLink);
     await page.getByText("This invitation has been accepted.").waitFor();
     await page.getByRole("link", { name: "Go to the dashboard" }).waitFor();
   });
 
   it("an unknown invitation says plainly that it was not found", async () => {
-    const { page } = browser;
-    await page.goto(`${server.baseUrl}/invite/no-such-invitation`);
+    const { page } = e2e.browser;
+    await page.goto(`${e2e.server.baseUrl}/invite/no-such-invitation`);
     await page.getByRole("heading", { name: "Not found" }).waitFor();
     await screenshot(page, "e2e-invitation-not-found");
   });
 
   it("someone who already has an account (in another workshop) signs in on the landing, joins, and can switch", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     // The owner invites the other workshop's owner as a maker.
-    await page.goto(`${server.baseUrl}/app`);
+    await page.goto(`${e2e.server.baseUrl}/app`);
     await page.getByRole("button", { name: "Sign out" }).click();
     await page.getByRole("heading", { name: "Sign in" }).waitFor();
-    await signInThroughForm(page, server.baseUrl, demo.owner);
-    await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
-    await page.goto(`${server.baseUrl}/app/members`);
+    await signIn(page, e2e.server.baseUrl, demo.owner);
+    await page.goto(`${e2e.server.baseUrl}/app/members`);
     const form = page.getByRole("form", { name: "Invite a member" });
     await form.getByLabel("E-mail address").fill(demo.other);
     await form.getByLabel("Role").selectOption("maker");
     await form.getByRole("button", { name: "Send invitation" }).click();
     await form.getByText(`Invitation sent to ${demo.other}`).waitFor();
-    await page.goto(`${server.baseUrl}/app/outbox`);
+    await page.goto(`${e2e.server.baseUrl}/app/outbox`);
     await page.getByRole("list", { name: "Sent mail" }).getByRole("link").filter({ hasText: `To ${demo.other}` }).click();
     const text = (await page.getByRole("article").locator("pre").textContent()) ?? "";
     const link = text.match(/https?:\/\/\S+\/invite\/\S+/)?.[0] ?? "";
@@ -115,10 +103,10 @@ describe("joining a workshop by invitation", () => {
 
     await page.goto(link);
     await page.getByRole("button", { name: "Have an account" }).click();
-    const signIn = page.getByRole("form", { name: "Sign in" });
-    expect(await signIn.getByLabel("E-mail").inputValue()).toBe(demo.other);
-    await signIn.getByLabel("Password").fill(demo.password);
-    await signIn.getByRole("button", { name: "Sign in" }).click();
+    const signInForm = page.getByRole("form", { name: "Sign in" });
+    expect(await signInForm.getByLabel("E-mail").inputValue()).toBe(demo.other);
+    await signInForm.getByLabel("Password").fill(demo.password);
+    await signInForm.getByRole("button", { name: "Sign in" }).click();
     await page.getByRole("button", { name: `Join ${demo.workshopName}` }).click();
     await page.getByText(`${demo.workshopName} · you work here as Maker.`).waitFor();
 

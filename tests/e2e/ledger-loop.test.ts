@@ -9,14 +9,14 @@ import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { demo, launchBrowser, screenshot, signInThroughForm, startServer, type LaunchedBrowser, type RunningServer } from "../support/browser";
+import { demo, screenshot, signIn } from "../support/browser";
+import { withServerAndBrowser } from "../support/e2e";
 import { synthStrikeWav } from "../../seeds/synth";
 import { forkWav } from "../support/wav";
 import { dispose, ledgerRow, openBatch, waitForVerdicts } from "./ledger-steps";
 
 describe("the ledger loop: maker uploads, qa disposes and releases", () => {
-  let server: RunningServer;
-  let browser: LaunchedBrowser;
+  const e2e = withServerAndBrowser();
   let wavDir: string;
 
   beforeAll(async () => {
@@ -26,20 +26,15 @@ describe("the ledger loop: maker uploads, qa disposes and releases", () => {
     writeFileSync(path.join(wavDir, "bench-take-2.wav"), forkWav({ frequencyHz: 440 * 2 ** (-20 / 1200), seed: 12 }));
     // A valid WAV of pure digital silence: accepted, then the analysis fails it with a reason.
     writeFileSync(path.join(wavDir, "forgot-to-strike.wav"), synthStrikeWav({ durationS: 1, partials: [], noise: 0, seed: 1 }));
-    server = await startServer();
-    browser = await launchBrowser();
   });
 
   afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
     if (wavDir) rmSync(wavDir, { recursive: true, force: true });
   });
 
   it("the maker drops two recordings on BTW-2612 and sees where each went", async () => {
-    const { page } = browser;
-    await signInThroughForm(page, server.baseUrl, demo.maker);
-    await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
+    const { page } = e2e.browser;
+    await signIn(page, e2e.server.baseUrl, demo.maker);
     await openBatch(page, "BTW-2612");
     await ledgerRow(page, "F-0011").getByText("Not measured").waitFor();
     // A marker on this document: if the page reloaded, it would be gone.
@@ -56,7 +51,7 @@ describe("the ledger loop: maker uploads, qa disposes and releases", () => {
 
   // Waits on the real analysis pool, which is slower when other test servers run at once.
   it("the ledger fills in without a reload: verdicts appear as the analyses finish", { timeout: 200_000 }, async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await ledgerRow(page, "F-0011").getByText("Within tolerance").waitFor({ timeout: 90_000 });
     await ledgerRow(page, "F-0012").getByText("Out of tolerance").waitFor({ timeout: 90_000 });
     // Same document throughout: the page polled, it was not reloaded.
@@ -71,7 +66,7 @@ describe("the ledger loop: maker uploads, qa disposes and releases", () => {
   });
 
   it("the unit out of tolerance shows its tuning guidance with the caution", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await ledgerRow(page, "F-0012").getByRole("link", { name: "F-0012" }).click();
     await page.getByRole("heading", { name: "Unit F-0012", level: 1 }).waitFor();
     await page.getByRole("list", { name: "Strikes" }).getByText("Done").waitFor();
@@ -89,7 +84,7 @@ describe("the ledger loop: maker uploads, qa disposes and releases", () => {
   });
 
   it("the same file again on the same unit is recognised and refused with the server's words", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await page.getByRole("link", { name: "← Batch BTW-2612" }).click();
     await ledgerRow(page, "F-0011").getByRole("link", { name: "F-0011" }).click();
     await page.getByRole("heading", { name: "Unit F-0011", level: 1 }).waitFor();
@@ -101,7 +96,7 @@ describe("the ledger loop: maker uploads, qa disposes and releases", () => {
 
   // Waits on the real analysis pool, which is slower when other test servers run at once.
   it("a recording with no strike in it fails its analysis, and the list says why in plain words", { timeout: 200_000 }, async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await page.getByLabel("WAV recordings for this unit").setInputFiles(path.join(wavDir, "forgot-to-strike.wav"));
     const item = page.getByRole("list", { name: "Strikes" }).getByRole("listitem").filter({ hasText: "forgot-to-strike.wav" });
     await item.getByText("Failed").waitFor({ timeout: 60_000 });
@@ -112,11 +107,10 @@ describe("the ledger loop: maker uploads, qa disposes and releases", () => {
 
   // Waits on the real analysis pool, which is slower when other test servers run at once.
   it("qa sees F-0004 and F-0008 out of tolerance in BTW-2611, is refused a release while they are open", { timeout: 200_000 }, async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await page.getByRole("button", { name: "Sign out" }).click();
     await page.getByRole("heading", { name: "Sign in" }).waitFor();
-    await signInThroughForm(page, server.baseUrl, demo.qa);
-    await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
+    await signIn(page, e2e.server.baseUrl, demo.qa);
     await openBatch(page, "BTW-2611");
     const serials = Array.from({ length: 10 }, (_, i) => `F-${String(i + 1).padStart(4, "0")}`);
     await waitForVerdicts(page, serials);
@@ -135,7 +129,7 @@ describe("the ledger loop: maker uploads, qa disposes and releases", () => {
   });
 
   it("qa disposes of both and releases the batch", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await dispose(page, "F-0004", "use_as_is", "Customer accepts −9 cents for a practice fork (demo concession).");
     await page.getByRole("link", { name: "← Batch BTW-2611" }).click();
     await dispose(page, "F-0008", "scrap", "Too sharp to rework within the tine length left.");
@@ -151,7 +145,7 @@ describe("the ledger loop: maker uploads, qa disposes and releases", () => {
   });
 
   it("prints as a plain ledger: no navigation or controls, a header saying what and when", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await page.emulateMedia({ media: "print" });
     try {
       expect(await page.getByRole("navigation", { name: "Main" }).isVisible()).toBe(false);

@@ -2,26 +2,16 @@
  * The demo maker signs in through the real form and reaches the dashboard of the demo workshop,
  * seeing only what a maker may use (shared/permissions.ts: no Members, no Outbox).
  */
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { demo, launchBrowser, screenshot, signInThroughForm, startServer, type LaunchedBrowser, type RunningServer } from "../support/browser";
+import { describe, expect, it } from "vitest";
+import { demo, screenshot, signIn, signInThroughForm } from "../support/browser";
+import { withServerAndBrowser } from "../support/e2e";
 
 describe("signing in as the demo maker", () => {
-  let server: RunningServer;
-  let browser: LaunchedBrowser;
-
-  beforeAll(async () => {
-    server = await startServer();
-    browser = await launchBrowser();
-  });
-
-  afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
-  });
+  const e2e = withServerAndBrowser();
 
   it("sends a signed-out visitor to the sign-in page", async () => {
-    const { page } = browser;
-    await page.goto(`${server.baseUrl}/app/members`);
+    const { page } = e2e.browser;
+    await page.goto(`${e2e.server.baseUrl}/app/members`);
     await page.getByRole("heading", { name: "Sign in" }).waitFor();
     expect(new URL(page.url()).pathname).toBe("/sign-in");
     expect(new URL(page.url()).searchParams.get("redirectTo")).toBe("/app/members");
@@ -29,8 +19,8 @@ describe("signing in as the demo maker", () => {
   });
 
   it("says plainly when the password is wrong", async () => {
-    const { page } = browser;
-    await signInThroughForm(page, server.baseUrl, demo.maker, "not-the-password");
+    const { page } = e2e.browser;
+    await signInThroughForm(page, e2e.server.baseUrl, demo.maker, "not-the-password");
     const alert = page.getByRole("alert");
     await alert.waitFor();
     expect((await alert.textContent())?.trim().length).toBeGreaterThan(0);
@@ -39,9 +29,8 @@ describe("signing in as the demo maker", () => {
   });
 
   it("shows the dashboard with the maker's navigation", async () => {
-    const { page } = browser;
-    await signInThroughForm(page, server.baseUrl, demo.maker);
-    await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
+    const { page } = e2e.browser;
+    await signIn(page, e2e.server.baseUrl, demo.maker);
     await page.getByText(`${demo.workshopName} · you work here as Maker.`).waitFor();
 
     const nav = page.getByRole("navigation", { name: "Main" });
@@ -51,7 +40,7 @@ describe("signing in as the demo maker", () => {
   });
 
   it("lists the demo workshop's batches, and no specification editor for a maker", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: /^Batches/ }).click();
     await page.getByRole("heading", { name: "Batches", level: 1 }).waitFor();
     const table = page.getByRole("table", { name: "Batches" });
@@ -66,8 +55,8 @@ describe("signing in as the demo maker", () => {
   });
 
   it("answers a page the maker may not use with a plain 403 message", async () => {
-    const { page } = browser;
-    await page.goto(`${server.baseUrl}/app/members`);
+    const { page } = e2e.browser;
+    await page.goto(`${e2e.server.baseUrl}/app/members`);
     await page.getByRole("heading", { name: "Not available for your role" }).waitFor();
     await screenshot(page, "e2e-maker-forbidden");
   });

@@ -2,26 +2,16 @@
  * Open sign-up: a new person creates an account, then their workshop (becoming its owner), then a
  * second one, and switches between them; each switch shows the chosen workshop's name and role.
  */
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { launchBrowser, screenshot, startServer, type LaunchedBrowser, type RunningServer } from "../support/browser";
+import { describe, expect, it } from "vitest";
+import { screenshot } from "../support/browser";
+import { withServerAndBrowser } from "../support/e2e";
 
 describe("signing up and creating workshops", () => {
-  let server: RunningServer;
-  let browser: LaunchedBrowser;
-
-  beforeAll(async () => {
-    server = await startServer();
-    browser = await launchBrowser();
-  });
-
-  afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
-  });
+  const e2e = withServerAndBrowser();
 
   it("creates an account and is led to create a workshop", async () => {
-    const { page } = browser;
-    await page.goto(`${server.baseUrl}/sign-in`);
+    const { page } = e2e.browser;
+    await page.goto(`${e2e.server.baseUrl}/sign-in`);
     await page.getByRole("link", { name: "Create an account" }).click();
     const form = page.getByRole("form", { name: "Create an account" });
     await form.getByLabel("Your name").fill("Rhea Castellan");
@@ -33,7 +23,7 @@ describe("signing up and creating workshops", () => {
   });
 
   it("derives the short name from the workshop name and becomes its owner", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     const form = page.getByRole("form", { name: "Create your workshop" });
     await form.getByLabel("Workshop name").fill("Saltmarsh Bell Foundry");
     expect(await form.getByLabel("Short name").inputValue()).toBe("saltmarsh-bell-foundry");
@@ -43,7 +33,7 @@ describe("signing up and creating workshops", () => {
   });
 
   it("refuses a short name another workshop already uses, in place", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await page.getByRole("link", { name: "New workshop…" }).click();
     const form = page.getByRole("form", { name: "Create your workshop" });
     await form.getByLabel("Workshop name").fill("Saltmarsh Bell Foundry");
@@ -53,7 +43,7 @@ describe("signing up and creating workshops", () => {
   });
 
   it("switches between two workshops", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     const form = page.getByRole("form", { name: "Create your workshop" });
     await form.getByLabel("Workshop name").fill("Saltmarsh Chimes");
     await form.getByLabel("Short name").fill("saltmarsh-chimes");

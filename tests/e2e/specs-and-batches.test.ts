@@ -4,27 +4,16 @@
  * creates a batch whose serial range is counted before sending; the owner completes the workshop
  * profile; the dashboard shows the open batches.
  */
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { demo, launchBrowser, screenshot, signInThroughForm, startServer, type LaunchedBrowser, type RunningServer } from "../support/browser";
+import { describe, expect, it } from "vitest";
+import { demo, screenshot, signIn, signInThroughForm } from "../support/browser";
+import { withServerAndBrowser } from "../support/e2e";
 
 describe("specifications, a new batch and the workshop settings", () => {
-  let server: RunningServer;
-  let browser: LaunchedBrowser;
-
-  beforeAll(async () => {
-    server = await startServer();
-    browser = await launchBrowser();
-  });
-
-  afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
-  });
+  const e2e = withServerAndBrowser();
 
   it("qa sees the open batches on the dashboard", { timeout: 200_000 }, async () => {
-    const { page } = browser;
-    await signInThroughForm(page, server.baseUrl, demo.qa);
-    await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
+    const { page } = e2e.browser;
+    await signIn(page, e2e.server.baseUrl, demo.qa);
     const open = page.getByRole("list", { name: "Open batches" });
     await open.getByRole("link", { name: "BTW-2611" }).waitFor();
     await open.getByRole("link", { name: "BTW-2612" }).waitFor();
@@ -37,7 +26,7 @@ describe("specifications, a new batch and the workshop settings", () => {
   });
 
   it("qa starts a free-bar specification from its template and is told what is wrong in place", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Specifications" }).click();
     await page.getByRole("link", { name: "New specification" }).click();
     await page.getByRole("heading", { name: "New specification", level: 1 }).waitFor();
@@ -65,7 +54,7 @@ describe("specifications, a new batch and the workshop settings", () => {
   });
 
   it("qa edits it into version 2 with a change note; both versions stay", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await page.getByRole("link", { name: "Edit (new version)" }).click();
     await page.getByRole("heading", { name: "Edit Chime bar C6, aluminium", level: 1 }).waitFor();
     await page.getByRole("group", { name: "Partial 1" }).getByLabel("Tolerance (± cents)").fill("3");
@@ -81,7 +70,7 @@ describe("specifications, a new batch and the workshop settings", () => {
   });
 
   it("qa creates a batch and sees the range counted before sending", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Batches" }).click();
     await page.getByRole("link", { name: "New batch" }).click();
     const form = page.getByRole("form", { name: "New batch" });
@@ -99,10 +88,10 @@ describe("specifications, a new batch and the workshop settings", () => {
   });
 
   it("the owner completes the workshop profile", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     await page.getByRole("button", { name: "Sign out" }).click();
     await page.getByRole("heading", { name: "Sign in" }).waitFor();
-    await signInThroughForm(page, server.baseUrl, demo.owner);
+    await signInThroughForm(page, e2e.server.baseUrl, demo.owner);
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Settings" }).click();
     await page.getByRole("heading", { name: "Workshop settings", level: 1 }).waitFor();
     const form = page.getByRole("form", { name: "Workshop profile" });

@@ -8,28 +8,19 @@
  * Outside references: the WAV is decoded independently with the `wavefile` npm package to check
  * the duration the player shows; the silent file for the failure case is written with it too.
  */
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
 import type { Page } from "playwright-core";
 import wavefile from "wavefile";
-import type { BatchDetail, BatchSummary } from "../../shared/schemas/batch.ts";
 import type { StrikeDetail, UnitDetail } from "../../shared/schemas/strike.ts";
 import { mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { chromium } from "playwright-core";
 import { forkWav } from "../support/wav";
-import { chromiumArgs, demo, findChromium, launchBrowser, screenshot, signInThroughForm, startServer, type LaunchedBrowser, type RunningServer } from "../support/browser";
+import { chromiumArgs, demo, findChromium, screenshot, signIn } from "../support/browser";
+import { apiGet, batchByCode, withServerAndBrowser } from "../support/e2e";
 
 const { WaveFile } = wavefile;
-
-/** GET with the page's own session cookie. */
-async function apiGet<T>(page: Page, url: string): Promise<T> {
-  return page.evaluate(async (u) => {
-    const r = await fetch(u, { credentials: "same-origin" });
-    if (!r.ok) throw new Error(`${u} answered ${r.status}`);
-    return r.json();
-  }, url) as Promise<T>;
-}
 
 /**
  * Counts pixels on the canvases under `selector` (searching open shadow roots too, where
@@ -83,20 +74,13 @@ async function eventuallyPositive(check: () => Promise<number>, what: string, ti
 }
 
 describe("the strike page", () => {
-  let server: RunningServer;
-  let browser: LaunchedBrowser;
+  const e2e = withServerAndBrowser();
   let strike: StrikeDetail;
 
   beforeAll(async () => {
-    server = await startServer();
-    browser = await launchBrowser();
-    const { page } = browser;
-    await signInThroughForm(page, server.baseUrl, demo.maker);
-    await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
-    const { batches } = await apiGet<{ batches: BatchSummary[] }>(page, "/api/batches");
-    const btw = batches.find((b) => b.code === "BTW-2611");
-    if (!btw) throw new Error("The demo seed has no batch BTW-2611; the strike page test opens one of its strikes.");
-    const detail = await apiGet<BatchDetail>(page, `/api/batches/${btw.id}`);
+    const { page } = e2e.browser;
+    await signIn(page, e2e.server.baseUrl, demo.maker);
+    const detail = await batchByCode(page, "BTW-2611");
     const unit = await apiGet<UnitDetail>(page, `/api/units/${detail.rows[0].id}`);
     // The seed analyses its strikes at start; wait for the first one to be done.
     for (let i = 0; i < 180; i++) {
@@ -107,14 +91,9 @@ describe("the strike page", () => {
     expect(strike.state).toBe("done");
   });
 
-  afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
-  });
-
   it("draws the waveform, and its length agrees with an independent decoding of the WAV", async () => {
-    const { page } = browser;
-    await page.goto(`${server.baseUrl}/strikes/${strike.id}`);
+    const { page } = e2e.browser;
+    await page.goto(`${e2e.server.baseUrl}/strikes/${strike.id}`);
     await page.getByRole("heading", { name: `Strike of ${strike.unit.serial}`, level: 1 }).waitFor();
     // Play is enabled once the audio is fetched and decoded.
     await page.locator("button:not([disabled])", { hasText: /^Play$/ }).waitFor({ timeout: 30_000 });
@@ -139,7 +118,7 @@ describe("the strike page", () => {
   });
 
   it("draws the spectrum with a marker per partial, labelled as in the table and the API", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     const spectrum = page.locator(".tl-spectrum");
     await spectrum.waitFor();
     // Spectrum line (#1f5d65) and partial markers (#9c3526) must both be on the canvas.
@@ -170,7 +149,7 @@ describe("the strike page", () => {
   });
 
   it("draws a decay plot per partial with its envelope and fit line", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     const decays = page.locator(".tl-decay");
     expect(await decays.count()).toBe(strike.result!.strikes[0].partials.length);
     // Envelope #4a8f96 and fit #9c3526 in the first decay plot.
@@ -183,9 +162,8 @@ describe("the strike page", () => {
   });
 
   it("shows the waveform and the reason for a recording that could not be analysed, after polling from queued", async () => {
-    const { page } = browser;
-    const { batches } = await apiGet<{ batches: BatchSummary[] }>(page, "/api/batches");
-    const open = await apiGet<BatchDetail>(page, `/api/batches/${batches.find((b) => b.code === "BTW-2612")!.id}`);
+    const { page } = e2e.browser;
+    const open = await batchByCode(page, "BTW-2612");
     // One second of digital silence, 16-bit mono 48 kHz, written by wavefile (not our encoder).
     const silent = new WaveFile();
     silent.fromScratch(1, 48_000, "16", new Int16Array(48_000));
@@ -200,7 +178,7 @@ describe("the strike page", () => {
       { unitId: open.rows[open.rows.length - 1].id, bytes },
     );
     expect(accepted.status).toBe(202);
-    await page.goto(`${server.baseUrl}/strikes/${accepted.body.id}`);
+    await page.goto(`${e2e.server.baseUrl}/strikes/${accepted.body.id}`);
     // Without a reload the page moves on from queued/analysing to the failure and its reason.
     await page.getByText("This recording could not be analysed").waitFor({ timeout: 60_000 });
     await page.getByText(/digital silence/).waitFor();
@@ -223,12 +201,10 @@ describe("the strike page", () => {
     });
     try {
       const page = context.pages()[0] ?? (await context.newPage());
-      await signInThroughForm(page, server.baseUrl, demo.maker);
-      await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
-      const { batches } = await apiGet<{ batches: BatchSummary[] }>(page, "/api/batches");
-      const open = await apiGet<BatchDetail>(page, `/api/batches/${batches.find((b) => b.code === "BTW-2612")!.id}`);
+      await signIn(page, e2e.server.baseUrl, demo.maker);
+      const open = await batchByCode(page, "BTW-2612");
       const unitId = open.rows[0].id;
-      await page.goto(`${server.baseUrl}/app/units/${unitId}`);
+      await page.goto(`${e2e.server.baseUrl}/app/units/${unitId}`);
       const recorder = page.getByRole("region", { name: "Record a strike" });
       await recorder.getByLabel("Stop at the latest after").selectOption("5");
       await recorder.getByRole("button", { name: "Record" }).click();
@@ -255,7 +231,7 @@ describe("the strike page", () => {
       const wav = new WaveFile(new Uint8Array(audio));
       expect((wav.fmt as { bitsPerSample: number }).bitsPerSample).toBe(24);
 
-      await page.goto(`${server.baseUrl}/strikes/${recorded.id}`);
+      await page.goto(`${e2e.server.baseUrl}/strikes/${recorded.id}`);
       await page.locator("button:not([disabled])", { hasText: /^Play$/ }).waitFor({ timeout: 30_000 });
       expect(await eventuallyPositive(() => colouredPixels(page, '[data-testid="waveform"]', ["#78b0b5", "#1f5d65"]), "recorded waveform")).toBeGreaterThan(1000);
     } finally {
@@ -265,7 +241,7 @@ describe("the strike page", () => {
   });
 
   it("overlays a unit's strikes on its page, named by support and time, with each partial's shift", async () => {
-    const { page } = browser;
+    const { page } = e2e.browser;
     // A second strike of the seeded unit, suspended this time: 3 cents sharp, same overtone ratio.
     const bytes = Array.from(forkWav({ frequencyHz: strike.result!.strikes[0].partials[0].frequencyHz * 2 ** (3 / 1200), seed: 31 }));
     const accepted = await page.evaluate(
@@ -279,7 +255,7 @@ describe("the strike page", () => {
       { unitId: strike.unit.id, bytes },
     );
     expect(accepted.status).toBe(202);
-    await page.goto(`${server.baseUrl}/app/units/${strike.unit.id}`);
+    await page.goto(`${e2e.server.baseUrl}/app/units/${strike.unit.id}`);
     const compare = page.locator('[data-testid="compare-strikes"]');
     await compare.waitFor({ timeout: 60_000 });
     const headers = await compare.getByRole("table").getByRole("columnheader").allTextContents();

@@ -5,11 +5,11 @@
  */
 import { execFileSync, spawn, type ChildProcess } from "node:child_process";
 import { accessSync, constants, existsSync, mkdirSync, mkdtempSync, readdirSync, rmSync, statSync } from "node:fs";
-import { createServer } from "node:net";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { chromium, type BrowserContext, type Page } from "playwright-core";
+import { freePort } from "./server-process";
 import { DEMO_PASSWORD, DEMO_USERS, DEMO_WORKSHOP, OTHER_WORKSHOP } from "../../seeds/demo.ts";
 
 export const repoRoot = fileURLToPath(new URL("../..", import.meta.url));
@@ -88,18 +88,6 @@ export async function ensureClientBuilt(): Promise<void> {
 // Server
 
 export type RunningServer = { baseUrl: string; dataDir: string; output: () => string; stop: () => Promise<void> };
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const probe = createServer();
-    probe.once("error", reject);
-    probe.listen(0, "127.0.0.1", () => {
-      const address = probe.address();
-      const port = typeof address === "object" && address ? address.port : 0;
-      probe.close(() => resolve(port));
-    });
-  });
-}
 
 /**
  * Starts `tsx server/index.ts` (node_modules/.bin/tsx, not npx, so one PID stops the whole tree:
@@ -228,10 +216,21 @@ export async function screenshot(page: Page, name: string): Promise<string> {
   return file;
 }
 
-/** Signs in through the real sign-in form, the way a person does. */
-export async function signInThroughForm(page: Page, baseUrl: string, email: string, password: string = demo.password): Promise<void> {
-  await page.goto(`${baseUrl}/sign-in`);
+/** Fills and sends the sign-in form already on the page (e.g. after a redirect to it). */
+export async function fillSignInForm(page: Page, email: string, password: string = demo.password): Promise<void> {
   await page.getByLabel("E-mail").fill(email);
   await page.getByLabel("Password").fill(password);
   await page.getByRole("button", { name: "Sign in" }).click();
+}
+
+/** Opens the real sign-in form and sends it, the way a person does; waits for nothing after. */
+export async function signInThroughForm(page: Page, baseUrl: string, email: string, password: string = demo.password): Promise<void> {
+  await page.goto(`${baseUrl}/sign-in`);
+  await fillSignInForm(page, email, password);
+}
+
+/** Signs in through the form and waits for the dashboard it leads to. */
+export async function signIn(page: Page, baseUrl: string, email: string, password: string = demo.password): Promise<void> {
+  await signInThroughForm(page, baseUrl, email, password);
+  await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
 }
