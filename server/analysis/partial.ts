@@ -371,8 +371,10 @@ function envelopeR2(y: Float64Array, fit: DampedFit, dt: number): number {
 
 /** Envelope (dB re full scale, peak amplitude) over the whole segment, at most 600 points. */
 function envelopeSeries(band: Band, nSeg: number, segStart: number, sampleRate: number, sigma: number) {
-  const points = Math.min(600, nSeg);
-  const per = nSeg / points;
+  // The last BAND_GUARD samples carry the band filter's wrap-around from the strike (a false rise).
+  const usable = Math.max(1, nSeg - BAND_GUARD);
+  const points = Math.min(600, usable);
+  const per = usable / points;
   const step = band.dt * sampleRate;
   const timeS: number[] = [];
   const levelDb: number[] = [];
