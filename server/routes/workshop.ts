@@ -1,8 +1,8 @@
 /** The active workshop: its profile (used on certificates and mail), dashboard and audit trail. */
-import { and, desc, eq } from "drizzle-orm";
+import { and, desc, eq, inArray } from "drizzle-orm";
 import { Router } from "express";
 import { z } from "zod";
-import { auditEvent, user, workshopProfile } from "../db/schema.ts";
+import { auditEvent, certificate, strike, user, workshopProfile } from "../db/schema.ts";
 import { requirePermission, userOf, workshopOf } from "../middleware/guards.ts";
 import { audit } from "../services/audit.ts";
 import { getBatch, listBatches } from "../services/batches.ts";
@@ -50,11 +50,22 @@ export function workshopRoutes({ db, readCache }: AppDeps) {
   r.get("/audit", requirePermission("audit", "read"), (req, res) => {
     const w = workshopOf(req);
     const entityId = typeof req.query.entityId === "string" ? req.query.entityId : undefined;
+    const unitId = typeof req.query.unitId === "string" ? req.query.unitId : undefined;
+    // A unit's history: the unit's own events and those of its strikes and certificates.
+    const ids = unitId
+      ? [
+          unitId,
+          ...db.select({ id: strike.id }).from(strike).where(and(eq(strike.unitId, unitId), eq(strike.workshopId, w.id))).all().map((r) => r.id),
+          ...db.select({ id: certificate.id }).from(certificate).where(and(eq(certificate.unitId, unitId), eq(certificate.workshopId, w.id))).all().map((r) => r.id),
+        ]
+      : entityId
+        ? [entityId]
+        : null;
     const rows = db
       .select({ e: auditEvent, actor: user.name })
       .from(auditEvent)
       .leftJoin(user, eq(user.id, auditEvent.actorId))
-      .where(entityId ? and(eq(auditEvent.workshopId, w.id), eq(auditEvent.entityId, entityId)) : eq(auditEvent.workshopId, w.id))
+      .where(ids ? and(eq(auditEvent.workshopId, w.id), inArray(auditEvent.entityId, ids)) : eq(auditEvent.workshopId, w.id))
       .orderBy(desc(auditEvent.id))
       .limit(500)
       .all();

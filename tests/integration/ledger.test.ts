@@ -226,3 +226,12 @@ describe("dashboard", () => {
     }
   });
 });
+
+describe("a unit's history", () => {
+  it("includes the unit's strike uploads as well as its evaluations and dispositions", async () => {
+    const res = await (await t.as("qa")).get(`/api/audit?unitId=${units[1].id}`);
+    const actions = res.body.events.map((e: { action: string }) => e.action);
+    expect(actions).toEqual(expect.arrayContaining(["strike.upload", "unit.evaluate", "unit.disposition"]));
+    expect(res.body.events.every((e: { entityId: string; action: string }) => e.entityId === units[1].id || e.action.startsWith("strike."))).toBe(true);
+  });
+});

@@ -5,7 +5,7 @@ export type AuditEvent = { id: number | string; action: string; entity: string; 
 
 /** The unit's audit trail (append-only on the server): evaluations, dispositions, customer changes. */
 export async function getUnitHistory(unitId: string): Promise<AuditEvent[]> {
-  return (await api.get<{ events: AuditEvent[] }>(`/api/audit?entityId=${encodeURIComponent(unitId)}`)).events;
+  return (await api.get<{ events: AuditEvent[] }>(`/api/audit?unitId=${encodeURIComponent(unitId)}`)).events;
 }
 
 /** `revision` changes whenever the unit page sees a new evaluation, disposition or customer, so the trail follows. */

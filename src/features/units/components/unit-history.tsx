@@ -9,12 +9,17 @@ const actionWords: Record<string, string> = {
   "unit.evaluate": "Evaluated",
   "unit.disposition": "Disposition recorded",
   "unit.update": "Customer details changed",
+  "strike.upload": "Strike uploaded",
+  "certificate.issue": "Certificate issued",
+  "certificate.amend": "Certificate amended",
 };
 
 function detail(event: AuditEvent): string | null {
   const after = (event.after ?? {}) as Record<string, unknown>;
   if (typeof after.verdict === "string" && after.verdict in verdictLabels) return verdictLabels[after.verdict as Verdict];
   if (typeof after.decision === "string" && after.decision in dispositionLabels) return dispositionLabels[after.decision as DispositionDecision];
+  if (typeof after.originalName === "string") return after.originalName;
+  if (typeof after.number === "string") return after.number;
   return null;
 }
 
