@@ -58,8 +58,10 @@ export const SAMPLE_CLOCK_HALF_WIDTH_PPM = 50;
 export type EvaluationOptions = {
   /** Half-width of the sample-clock error, ppm (rectangular); 0 for a clock calibrated to negligible error. */
   clockHalfWidthPpm: number;
+  /** Half-width of the thermometer's error, °C (rectangular). */
+  thermometerHalfWidthC?: number;
 };
-export const defaultEvaluationOptions: EvaluationOptions = { clockHalfWidthPpm: SAMPLE_CLOCK_HALF_WIDTH_PPM };
+export const defaultEvaluationOptions: EvaluationOptions = { clockHalfWidthPpm: SAMPLE_CLOCK_HALF_WIDTH_PPM, thermometerHalfWidthC: THERMOMETER_HALF_WIDTH_C };
 
 /**
  * Search window for matching a measured partial to a requirement, cents either side of the
@@ -324,7 +326,8 @@ function combineFrequency(spec: SpecInput, obs: Observation[], opts: EvaluationO
   const measuredHz = median(fs);
   // u_temp = |α|·f·u_T: the sensitivity of f_ref to the temperature reading (GUM §5.1.3), only
   // when a temperature was given and used for a correction.
-  const uTemp = obs.some((o) => o.hasTemperature) ? Math.abs(spec.tempCoefficientPerC) * measuredHz * THERMOMETER_STANDARD_UNCERTAINTY_C : 0;
+  const uT = (opts.thermometerHalfWidthC ?? THERMOMETER_HALF_WIDTH_C) / Math.sqrt(3);
+  const uTemp = obs.some((o) => o.hasTemperature) ? Math.abs(spec.tempCoefficientPerC) * measuredHz * uT : 0;
   const uClock = (measuredHz * opts.clockHalfWidthPpm * 1e-6) / Math.sqrt(3);
   const uncertaintyHz = combinedUncertainty(fs, obs.map((o) => o.uHz), Math.hypot(uTemp, uClock));
   return { measuredHz, spreadCents: cents(Math.max(...fs), Math.min(...fs)), uncertaintyHz, expandedHz: COVERAGE_FACTOR * uncertaintyHz };

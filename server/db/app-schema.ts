@@ -72,6 +72,9 @@ export const workshopProfile = sqliteTable("workshop_profile", {
   sendingEmail: text("sending_email").notNull().default(""),
   qualityEmail: text("quality_email").notNull().default(""),
   certificatePrefix: text("certificate_prefix").notNull().default("TL"),
+  /** Instrument tolerances that enter the uncertainty of every measured frequency (see shared/evaluation.ts). */
+  clockTolerancePpm: real("clock_tolerance_ppm").notNull().default(50),
+  thermometerToleranceC: real("thermometer_tolerance_c").notNull().default(0.5),
   updatedAt: createdAt(),
 });
 

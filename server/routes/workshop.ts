@@ -1,19 +1,15 @@
 /** The active workshop: its profile (used on certificates and mail), dashboard and audit trail. */
 import { and, desc, eq, inArray } from "drizzle-orm";
 import { Router } from "express";
-import { z } from "zod";
+import { SAMPLE_CLOCK_HALF_WIDTH_PPM, THERMOMETER_HALF_WIDTH_C } from "../../shared/evaluation.ts";
+import { workshopProfileSchema } from "../../shared/schemas/workshop.ts";
 import { auditEvent, certificate, strike, user, workshopProfile } from "../db/schema.ts";
 import { requirePermission, userOf, workshopOf } from "../middleware/guards.ts";
 import { audit } from "../services/audit.ts";
 import { getBatch, listBatches } from "../services/batches.ts";
 import type { AppDeps } from "../app.ts";
 
-export const workshopProfileSchema = z.object({
-  address: z.string().trim().max(500),
-  sendingEmail: z.email("Enter a valid e-mail address").or(z.literal("")),
-  qualityEmail: z.email("Enter a valid e-mail address").or(z.literal("")),
-  certificatePrefix: z.string().trim().regex(/^[A-Z0-9-]{1,12}$/, "Capital letters, digits and - (at most 12)"),
-});
+
 
 export function workshopRoutes({ db, readCache }: AppDeps) {
   const r = Router();
@@ -21,7 +17,17 @@ export function workshopRoutes({ db, readCache }: AppDeps) {
   r.get("/workshop", requirePermission("workshop", "read"), (req, res) => {
     const w = workshopOf(req);
     const p = db.select().from(workshopProfile).where(eq(workshopProfile.workshopId, w.id)).get();
-    res.json({ ...w, profile: { address: p?.address ?? "", sendingEmail: p?.sendingEmail ?? "", qualityEmail: p?.qualityEmail ?? "", certificatePrefix: p?.certificatePrefix ?? "TL" } });
+    res.json({
+      ...w,
+      profile: {
+        address: p?.address ?? "",
+        sendingEmail: p?.sendingEmail ?? "",
+        qualityEmail: p?.qualityEmail ?? "",
+        certificatePrefix: p?.certificatePrefix ?? "TL",
+        clockTolerancePpm: p?.clockTolerancePpm ?? SAMPLE_CLOCK_HALF_WIDTH_PPM,
+        thermometerToleranceC: p?.thermometerToleranceC ?? THERMOMETER_HALF_WIDTH_C,
+      },
+    });
   });
 
   r.put("/workshop/profile", requirePermission("workshop", "update"), (req, res) => {

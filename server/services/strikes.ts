@@ -5,9 +5,9 @@ import type { AnalysisResult } from "../../shared/schemas/analysis.ts";
 import type { EvaluationView } from "../../shared/schemas/evaluation.ts";
 import type { Support } from "../../shared/schemas/spec.ts";
 import type { StrikeDetail, StrikeSummary, UnitDetail } from "../../shared/schemas/strike.ts";
-import { evaluateUnit, matchPartials, type EvaluationStrikeInput } from "../../shared/evaluation.ts";
+import { evaluateUnit, matchPartials, SAMPLE_CLOCK_HALF_WIDTH_PPM, THERMOMETER_HALF_WIDTH_C, type EvaluationStrikeInput } from "../../shared/evaluation.ts";
 import type { Db, Sqlite } from "../db/client.ts";
-import { batch, disposition, evaluation, measurement, partial, strike, unit, user } from "../db/schema.ts";
+import { batch, disposition, evaluation, measurement, partial, strike, unit, user, workshopProfile } from "../db/schema.ts";
 import { conflict, notFound } from "../http-error.ts";
 import { audit, type Actor } from "./audit.ts";
 import { latestEvaluations, findBatch } from "./batches.ts";
@@ -154,7 +154,11 @@ export function evaluateAndRecord(db: Db, sqlite: Sqlite, workshopId: string, un
   const { spec } = specForUnit(db, workshopId, u);
   const inputs = evaluationInputs(db, unitId);
   if (!inputs.length) return;
-  const { labels: _labels, ...view } = evaluateUnit(spec, inputs);
+  const profile = db.select().from(workshopProfile).where(eq(workshopProfile.workshopId, workshopId)).get();
+  const opts = { clockHalfWidthPpm: profile?.clockTolerancePpm ?? SAMPLE_CLOCK_HALF_WIDTH_PPM, thermometerHalfWidthC: profile?.thermometerToleranceC ?? THERMOMETER_HALF_WIDTH_C };
+  const { labels: _labels, ...evaluated } = evaluateUnit(spec, inputs, opts);
+  // The tolerances used stay with the evaluation: a later change of the profile does not rewrite history.
+  const view = { ...evaluated, assumptions: opts };
   const id = randomUUID();
   db.insert(evaluation).values({ id, workshopId, unitId, specVersionId: spec.id, verdict: view.verdict, detail: view }).run();
   appendToChain(sqlite, workshopId, "evaluation", id);

@@ -72,5 +72,7 @@ export type EvaluationView = {
   /** Plain-words reasons for the verdict (what failed, why inconclusive). */
   reasons: string[];
   guidance: TuningGuidance | null;
+  /** Instrument tolerances (half-widths, rectangular) that entered the uncertainties. */
+  assumptions?: { clockHalfWidthPpm: number; thermometerHalfWidthC?: number };
   createdAt: string;
 };

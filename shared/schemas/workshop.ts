@@ -39,3 +39,21 @@ export const inviteMemberSchema = z.object({
   role: memberRoleSchema,
 });
 export type InviteMemberInput = z.infer<typeof inviteMemberSchema>;
+
+const optionalEmail = z.union([z.literal(""), z.email("Enter a valid e-mail address, like quality@example.com")]);
+
+/**
+ * The workshop's profile (printed on certificates, used as the certificate mail's From and Reply-To) and
+ * the two instrument tolerances that enter every measured frequency's uncertainty. Form and route use it.
+ */
+export const workshopProfileSchema = z.object({
+  address: z.string().trim().max(500, "At most 500 characters"),
+  sendingEmail: optionalEmail,
+  qualityEmail: optionalEmail,
+  certificatePrefix: z.string().trim().regex(/^[A-Z0-9-]{1,12}$/, "Capital letters, digits and - only, at most 12 (e.g. BTW)"),
+  /** ± half-width of the recording device's sample-clock error, ppm (50 when not calibrated: an assumption). */
+  clockTolerancePpm: z.number({ error: "Give the clock tolerance in ppm" }).min(0, "0 ppm or more").max(1000, "At most 1000 ppm"),
+  /** ± half-width of the thermometer's error, °C. */
+  thermometerToleranceC: z.number({ error: "Give the thermometer tolerance in °C" }).min(0, "0 °C or more").max(10, "At most 10 °C"),
+});
+export type WorkshopProfileInput = z.infer<typeof workshopProfileSchema>;

@@ -235,3 +235,29 @@ describe("a unit's history", () => {
     expect(res.body.events.every((e: { entityId: string; action: string }) => e.entityId === units[1].id || e.action.startsWith("strike."))).toBe(true);
   });
 });
+
+describe("instrument tolerances", () => {
+  it("uses the workshop's clock and thermometer tolerances in new evaluations and records them", async () => {
+    const w = await startTestApp({ DEMO_STRIKES: "0" });
+    try {
+      const owner = await w.as("owner");
+      const profile = (await owner.get("/api/workshop")).body.profile;
+      expect(profile).toMatchObject({ clockTolerancePpm: 50, thermometerToleranceC: 0.5 });
+      const put = await owner.put("/api/workshop/profile").set("Origin", ORIGIN).send({ ...profile, clockTolerancePpm: 200 });
+      expect(put.status, JSON.stringify(put.body)).toBe(200);
+      expect((await owner.put("/api/workshop/profile").set("Origin", ORIGIN).send({ ...profile, clockTolerancePpm: -1 })).body.error.fields).toHaveProperty("clockTolerancePpm");
+
+      const batches = (await owner.get("/api/batches")).body.batches;
+      const open = (await owner.get(`/api/batches/${batches.find((b: { code: string }) => b.code === "BTW-2612").id}`)).body.rows[0];
+      const maker = await w.as("maker");
+      expect((await maker.post(`/api/units/${open.id}/strikes`).set("Origin", ORIGIN).attach("audio", Buffer.from(forkWav({ frequencyHz: 440, seed: 77 })), "tol.wav")).status).toBe(202);
+      await w.runtime.queue.drained();
+      const ev = (await maker.get(`/api/units/${open.id}`)).body.evaluation;
+      expect(ev.assumptions).toEqual({ clockHalfWidthPpm: 200, thermometerHalfWidthC: 0.5 });
+      // U ≥ 2·f·(200 ppm)/√3 (GUM §4.3.7, rectangular; k = 2): the clock term alone.
+      expect(ev.requirements[0].expandedUncertaintyHz).toBeGreaterThanOrEqual((2 * 440 * 200e-6) / Math.sqrt(3));
+    } finally {
+      await w.close();
+    }
+  });
+});

@@ -1,8 +1,9 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
 import type { RoleName } from "@shared/permissions";
+import type { WorkshopProfileInput } from "@shared/schemas/workshop";
 import { api } from "@/lib/api-client";
 
-export type WorkshopProfile = { address: string; sendingEmail: string; qualityEmail: string; certificatePrefix: string };
+export type WorkshopProfile = WorkshopProfileInput;
 export type Workshop = { id: string; name: string; slug: string; role: RoleName; profile: WorkshopProfile };
 
 export function getWorkshop(): Promise<Workshop> {

@@ -2,7 +2,7 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useState } from "react";
 import { useForm } from "react-hook-form";
-import { z } from "zod";
+import { workshopProfileSchema } from "@shared/schemas/workshop";
 import { Alert } from "@/components/ui/alert";
 import { Button } from "@/components/ui/button";
 import { InputField, TextAreaField } from "@/components/ui/field";
@@ -10,22 +10,13 @@ import { applyServerErrors } from "@/lib/form-errors";
 import { profileGaps, type WorkshopProfile } from "../api/get-workshop";
 import { useUpdateProfile } from "../api/update-profile";
 
-// The same rules as the server's PUT /api/workshop/profile (server/routes/workshop.ts).
-const email = z.union([z.literal(""), z.email("Enter a valid e-mail address, like quality@example.com")]);
-const schema = z.object({
-  address: z.string().trim().max(500, "At most 500 characters"),
-  sendingEmail: email,
-  qualityEmail: email,
-  certificatePrefix: z.string().trim().regex(/^[A-Z0-9-]{1,12}$/, "Capital letters, digits and - only, at most 12 (e.g. BTW)"),
-});
-
-const fields = ["address", "sendingEmail", "qualityEmail", "certificatePrefix"] as const;
+const fields = ["address", "sendingEmail", "qualityEmail", "certificatePrefix", "clockTolerancePpm", "thermometerToleranceC"] as const;
 
 export function ProfileForm({ workshopId, profile }: { workshopId: string; profile: WorkshopProfile }) {
   const update = useUpdateProfile(workshopId);
   const [formError, setFormError] = useState<string | null>(null);
   const [saved, setSaved] = useState(false);
-  const form = useForm<WorkshopProfile>({ resolver: zodResolver(schema), defaultValues: profile });
+  const form = useForm<WorkshopProfile>({ resolver: zodResolver(workshopProfileSchema), defaultValues: profile });
   const { errors, isSubmitting } = form.formState;
   const gaps = profileGaps(form.watch());
 
@@ -52,6 +43,28 @@ export function ProfileForm({ workshopId, profile }: { workshopId: string; profi
         <InputField label="Quality e-mail" type="email" hint="Customers' replies go here." error={errors.qualityEmail?.message} {...form.register("qualityEmail")} />
         <InputField label="Certificate prefix" hint="Starts every certificate number, e.g. BTW-2026-0001." error={errors.certificatePrefix?.message} {...form.register("certificatePrefix")} />
       </div>
+      <fieldset className="grid gap-4 sm:grid-cols-2">
+        <legend className="mb-2 text-body font-semibold">Instrument tolerances</legend>
+        <InputField
+          label="Recording clock tolerance (± ppm)"
+          type="number"
+          step="any"
+          inputMode="decimal"
+          hint="Every measured frequency scales with the recording device's clock. 50 ppm assumes an uncalibrated audio interface; calibrate it against a reference tone to use less."
+          error={errors.clockTolerancePpm?.message}
+          {...form.register("clockTolerancePpm", { valueAsNumber: true })}
+        />
+        <InputField
+          label="Thermometer tolerance (± °C)"
+          type="number"
+          step="any"
+          inputMode="decimal"
+          hint="Enters the uncertainty of the temperature correction. Use the thermometer's stated accuracy."
+          error={errors.thermometerToleranceC?.message}
+          {...form.register("thermometerToleranceC", { valueAsNumber: true })}
+        />
+        <p className="text-caption text-ink-faint sm:col-span-2">Both are taken as rectangular (GUM §4.3.7) and apply to evaluations made after saving; earlier ones keep the values they were made with.</p>
+      </fieldset>
       <div>
         <Button type="submit" pending={isSubmitting}>
           Save profile
