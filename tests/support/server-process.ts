@@ -1,11 +1,10 @@
 /**
- * Runs the real server as a child process (node_modules/.bin/tsx server/index.ts: one PID for the
- * whole tree, STACK.md trap 9) on a given data folder, for tests and benchmarks that must kill or
- * restart it. Waits until GET /api/health answers.
+ * Runs the real server as a child process (`node --import tsx server/index.ts`: one process, so a
+ * signal reaches the server itself) on a given data folder, for tests and benchmarks that must kill
+ * or restart it. Waits until GET /api/health answers.
  */
 import { spawn, type ChildProcess } from "node:child_process";
 import { createServer } from "node:net";
-import path from "node:path";
 import { fileURLToPath } from "node:url";
 
 const root = fileURLToPath(new URL("../..", import.meta.url));
@@ -34,7 +33,9 @@ export async function spawnServer(opts: { dataDir: string; port?: number; env?: 
   const port = opts.port ?? (await freePort());
   const baseUrl = `http://127.0.0.1:${port}`;
   let output = "";
-  const child = spawn(path.join(root, "node_modules/.bin/tsx"), ["server/index.ts"], {
+  // One process, node with tsx's loader: a SIGKILL must kill the server itself (the tsx wrapper forwards
+  // SIGTERM to its child but cannot forward SIGKILL, which would leave the real server running).
+  const child = spawn(process.execPath, ["--import", "tsx", "server/index.ts"], {
     cwd: root,
     // BASE_URL is set explicitly: vitest leaks BASE_URL="/" into process.env.
     env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", BASE_URL: baseUrl, DATA_DIR: opts.dataDir, NODE_ENV: "test", LOG_LEVEL: "warn", ...opts.env },
