@@ -24,7 +24,8 @@ import { assertNotDuplicate, findUnit, getStrike, getUnit, insertStrike, nextUnm
 import type { AppDeps } from "../app.ts";
 
 const HEADER_BYTES = 1 << 20;
-const LIMITS = { minRate: 8000, maxRate: 384_000, maxChannels: 8, maxDurationS: 600 };
+/** Upload policy on top of what the decoder accepts (readWavHeader already bounds channels and duration). */
+const LIMITS = { minRate: 8000, maxRate: 384_000 };
 
 export function strikeRoutes(deps: AppDeps) {
   const { db, sqlite, storage, queue, env } = deps;
@@ -90,8 +91,6 @@ export function strikeRoutes(deps: AppDeps) {
       if (header.sampleRate < LIMITS.minRate || header.sampleRate > LIMITS.maxRate) {
         throw new HttpError(422, "unprocessable", `The sample rate is ${header.sampleRate} Hz; Tinelog accepts ${LIMITS.minRate}–${LIMITS.maxRate} Hz. Record at 44.1 or 48 kHz.`, { audio: "Sample rate out of range" });
       }
-      if (header.channels > LIMITS.maxChannels) throw new HttpError(422, "unprocessable", `The file has ${header.channels} channels; at most ${LIMITS.maxChannels} are accepted.`, { audio: "Too many channels" });
-      if (header.durationS > LIMITS.maxDurationS) throw new HttpError(422, "unprocessable", `The recording is ${Math.round(header.durationS)} s long; at most ${LIMITS.maxDurationS} s are accepted. Trim it to the strike and its ring.`, { audio: "Too long" });
       const fields = strikeUploadFieldsSchema.parse(req.body ?? {});
       // Again with the real size: a chunked upload declares none before it is read.
       storage.checkRoom(db, workshopOf(req).id, file.size);

@@ -55,8 +55,15 @@ function ledgerRows(db: Db, batchId: string): LedgerRow[] {
   const strikes = ids.length
     ? db.select({ unitId: strike.unitId, state: strike.state, at: strike.uploadedAt }).from(strike).where(inArray(strike.unitId, ids)).all()
     : [];
+  // Grouped once (Map.groupBy needs Node 21): the ledger is read on every poll of a bench tablet.
+  const strikesOf = new Map<string, typeof strikes>();
+  for (const s of strikes) {
+    const list = strikesOf.get(s.unitId);
+    if (list) list.push(s);
+    else strikesOf.set(s.unitId, [s]);
+  }
   return units.map((u) => {
-    const mine = strikes.filter((s) => s.unitId === u.id);
+    const mine = strikesOf.get(u.id) ?? [];
     const ev = evals.get(u.id) ?? null;
     const fund = ev?.requirements.find((r) => r.isFundamental) ?? ev?.requirements[0] ?? null;
     const overtone = ev?.requirements.find((r) => !r.isFundamental && r.measuredRatio != null) ?? null;

@@ -3,7 +3,7 @@ import { randomUUID } from "node:crypto";
 import { and, asc, desc, eq, inArray } from "drizzle-orm";
 import type { AnalysisResult } from "../../shared/schemas/analysis.ts";
 import type { EvaluationView } from "../../shared/schemas/evaluation.ts";
-import type { Support } from "../../shared/schemas/spec.ts";
+import type { Support, SpecVersion } from "../../shared/schemas/spec.ts";
 import type { StrikeDetail, StrikeSummary, UnitDetail } from "../../shared/schemas/strike.ts";
 import { evaluateUnit, matchPartials, SAMPLE_CLOCK_HALF_WIDTH_PPM, THERMOMETER_HALF_WIDTH_C, type EvaluationStrikeInput } from "../../shared/evaluation.ts";
 import type { Db, Sqlite } from "../db/client.ts";
@@ -21,6 +21,15 @@ export function findUnit(db: Db, workshopId: string, unitId: string) {
 }
 
 type StrikeRow = typeof strike.$inferSelect;
+
+/** Which spec label each measured partial carries (partial index → label), for lists and the strike page. */
+function specLabels(spec: SpecVersion, partials: AnalysisResult["strikes"][number]["partials"]): Record<number, string> {
+  const labels: Record<number, string> = {};
+  matchPartials(spec, partials).forEach((idx, req) => {
+    if (idx !== null) labels[idx] = spec.partials[req].label;
+  });
+  return labels;
+}
 
 function fundamentalOf(result: AnalysisResult | null, labels: Record<number, string>, fundamentalLabel: string | undefined): number | null {
   const partials = result?.strikes[0]?.partials;
@@ -182,10 +191,7 @@ export function getStrike(db: Db, workshopId: string, strikeId: string): StrikeD
     const stored = m.result as AnalysisResult;
     const plots = (m.plot ?? []) as (AnalysisResult["strikes"][number]["plot"] | null)[];
     result = { ...stored, strikes: stored.strikes.map((seg, i) => ({ ...seg, plot: plots[i] ?? undefined })) };
-    const first = stored.strikes[0]?.partials ?? [];
-    matchPartials(spec, first).forEach((idx, req) => {
-      if (idx !== null) labels[idx] = spec.partials[req].label;
-    });
+    Object.assign(labels, specLabels(spec, stored.strikes[0]?.partials ?? []));
   }
   const fundamentalLabel = spec.partials.find((p) => p.isFundamental)?.label;
   return {
@@ -226,8 +232,7 @@ export function getUnit(db: Db, workshopId: string, unitId: string): UnitDetail 
   );
   const strikes = rows.map(({ s, by }) => {
     const result = results.get(s.id) ?? null;
-    const labels: Record<number, string> = {};
-    if (result) matchPartials(spec, result.strikes[0]?.partials ?? []).forEach((idx, req) => { if (idx !== null) labels[idx] = spec.partials[req].label; });
+    const labels = result ? specLabels(spec, result.strikes[0]?.partials ?? []) : {};
     return toSummary(s, by?.id ? by : null, fundamentalOf(result, labels, fundamentalLabel));
   });
   const ev: EvaluationView | null = latestEvaluations(db, [unitId]).get(unitId) ?? null;
