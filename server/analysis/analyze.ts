@@ -5,10 +5,11 @@
 import type { AnalysisResult, AnalysisWarning, Partial, StrikePlot, StrikeResult } from "../../shared/schemas/analysis";
 import { AnalysisInputError } from "./errors";
 import { nextPow2, realDft } from "./fft";
-import { humFundamental } from "./hum";
+import { judgeHum, leadInAmplitude, leadInEvidence, type SteadyLine } from "./hum";
 import { refinePartial, type RefinedPartial } from "./partial";
+import { roomDecay } from "./room";
 import { findOnsets } from "./segment";
-import { findPeaks, quickSelect, windowedSpectrum, type Spectrum } from "./spectrum";
+import { findPeaks, quickSelect, windowedSpectrum, type SpectralPeak, type Spectrum } from "./spectrum";
 import { decodeWav } from "./wav";
 
 export const ANALYSER_VERSION = "1.0.0";
@@ -38,6 +39,10 @@ const MAX_SEGMENT = 3_800_000;
 const LOW_RATE_HZ = 22050;
 const LOW_LEVEL_DBFS = -40;
 const DC_LIMIT = 0.005;
+/** A partial whose τ is under this many of the room's time constants is masked by the room
+ *  (our threshold: the room's share of the band falls 40 dB only after about 2.3 room time
+ *  constants more than the partial's own, so shorter decays are never seen alone). */
+const ROOM_MASK_FACTOR = 3;
 
 const now = () => performance.now();
 
@@ -96,7 +101,11 @@ export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } =
   let partialCount = 0;
   const strikes: StrikeResult[] = [];
   const humSeen = new Set<number>();
+  let humFamilyHz: 50 | 60 | null = null;
   const unreliable: number[] = [];
+  const notExponential: number[] = [];
+  const overlap: number[] = [];
+  const masked: Array<{ hz: number; rt60S: number }> = [];
   // No rise found: the recording may have started after the strike (or hold only noise). Analyse
   // it as one strike from the start; if nothing rings in it, it is noise.
   const assumedStrike = seg.onsets.length === 0;
@@ -106,6 +115,9 @@ export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } =
     const f = Math.max(0, seg.levelDb.findIndex((l) => l >= max - 10));
     seg.onsets.push(f * seg.hop);
   }
+  // The lead-in (before the first strike, less 5 ms) is where hum shows itself without the unit.
+  // Without a rise there is no lead-in: the recording may have started after the strike.
+  const leadInEnd = assumedStrike ? 0 : Math.max(0, seg.onsets[0] - Math.round(0.005 * fs));
   for (let s = 0; s < seg.onsets.length; s++) {
     const onset = seg.onsets[s];
     const segEnd = s + 1 < seg.onsets.length ? seg.onsets[s + 1] : mono.length;
@@ -132,13 +144,14 @@ export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } =
     const lp = Math.min(available, nextPow2(Math.round(fs * 0.25)));
     const spec = windowedSpectrum(mono, fitStart, lp, fs);
     result.noiseFloorDb = round(broadbandNoiseDb(spec), 2);
-    const peaks = findPeaks(spec, {
+    const peakOptions = {
       minProminenceDb: PEAK_PROMINENCE_DB,
       rangeDb: PEAK_RANGE_DB,
       minHz: Math.max(MIN_PARTIAL_HZ, (3 * fs) / spec.size),
       maxHz: Math.min(0.45 * fs, 30000),
       maxPeaks: 2 * MAX_PARTIALS,
-    });
+    };
+    const peaks = findPeaks(spec, peakOptions);
     // The strike segment for refinement, zero-padded so the band filters do not wrap around.
     const segLen = Math.min(segEnd - analysisStart, MAX_SEGMENT);
     const M = nextPow2(Math.ceil(segLen * 1.07));
@@ -146,46 +159,105 @@ export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } =
     const tb = now();
     fftMs += tb - ta;
 
-    const groups = groupPeaks(peaks.map((p) => p.frequencyHz));
-    const powerOf = new Map(peaks.map((p) => [p.frequencyHz, p.powerDb]));
-    const refined: Array<{ r: RefinedPartial; hum: boolean }> = [];
-    for (const group of groups.slice(0, MAX_PARTIALS)) {
-      // Neighbours that limit the band: peaks outside the group no more than 20 dB weaker. Weaker
-      // ones inside the band act as a little extra noise; excluding them would shrink the band
-      // until too few samples remain.
-      const level = Math.max(...group.map((f) => powerOf.get(f)!));
-      const others = peaks.filter((p) => !group.includes(p.frequencyHz) && p.powerDb >= level - 20).map((p) => p.frequencyHz);
-      const lo = Math.min(...group);
-      const hi = Math.max(...group);
-      const neighbourHz = others.length ? Math.min(...others.map((f) => (f < lo ? lo - f : f > hi ? f - hi : 0))) : Infinity;
-      const r = refinePartial({ X, M, sampleRate: fs, segStart: analysisStart, segLen, onsetSample: onset, fitStartSample: fitStart, peaksHz: group, neighbourHz });
-      if (!r) continue;
-      const p = r.partial;
-      // Without a finite fit and covariance there is no measurement to report.
-      if (![p.frequencyHz, p.tauS, p.amplitudeDb, p.frequencyUncertaintyHz, p.tauUncertaintyS].every(Number.isFinite)) continue;
-      if ((p.snrDb ?? 0) < 6) continue;
-      // Steady tones are not the unit's partials: a struck partial decays measurably.
-      const steady = !(r.alpha > 3 * r.alphaUncertainty) || r.alpha <= 0;
-      const mains = humFundamental(p.frequencyHz);
-      const decayDb = (20 / Math.LN10) * r.alpha * ((analysisStart + segLen) / fs - onset / fs);
-      if (mains && (steady || decayDb < 3)) {
-        humSeen.add(round(p.frequencyHz, 1));
-        refined.push({ r, hum: true });
-        continue;
+    const refined: RefinedPartial[] = [];
+    // Lines that do not decay (or barely: under 3 dB over the strike) are judged together once all
+    // groups are refined: hum needs the family and the lead-in, not one line's frequency.
+    const lines: Array<{ line: SteadyLine; candidate: RefinedPartial | null }> = [];
+    const leadIn = (fHz: number) => (leadInEnd > 0 ? leadInAmplitude(mono, 0, leadInEnd, fs, fHz) : null);
+    /** Refines the groups of `list` (peaks of spectrum `sp`); returns how many bands held no
+     *  measurable partial (noise, or a decay the band could not follow). */
+    const refineAll = (list: SpectralPeak[], sp: Spectrum, budget: number): number => {
+      let unresolved = 0;
+      const groups = groupPeaks(list.map((p) => p.frequencyHz));
+      const powerOf = new Map(list.map((p) => [p.frequencyHz, p.powerDb]));
+      const binHz = sp.sampleRate / sp.size;
+      for (const group of groups.slice(0, budget)) {
+        // Neighbours that limit the band: peaks outside the group no more than 20 dB weaker. Weaker
+        // ones inside the band act as a little extra noise; excluding them would shrink the band
+        // until too few samples remain.
+        const level = Math.max(...group.map((f) => powerOf.get(f)!));
+        const others = list.filter((p) => !group.includes(p.frequencyHz) && p.powerDb >= level - 20).map((p) => p.frequencyHz);
+        const lo = Math.min(...group);
+        const hi = Math.max(...group);
+        const neighbourHz = others.length ? Math.min(...others.map((f) => (f < lo ? lo - f : f > hi ? f - hi : 0))) : Infinity;
+        // White noise of variance σ² per sample gives E|X[k]|² = σ²·Σw² in the Hann spectrum.
+        const noisePower = sp.floor[Math.min(sp.floor.length - 1, Math.round(group[0] / binHz))] / sp.windowSumSq;
+        const r = refinePartial({ X, M, sampleRate: fs, segStart: analysisStart, segLen, onsetSample: onset, fitStartSample: fitStart, peaksHz: group, neighbourHz, noisePower });
+        if (r === "unresolved") unresolved++;
+        if (!r || r === "unresolved") continue;
+        const p = r.partial;
+        // Without a finite fit and covariance there is no measurement to report.
+        if (![p.frequencyHz, p.tauS, p.amplitudeDb, p.frequencyUncertaintyHz, p.tauUncertaintyS].every(Number.isFinite)) continue;
+        if ((p.snrDb ?? 0) < 6) continue;
+        // A band whose envelope parts erratically from every model holds noise (a room's diffuse
+        // tail excited by the strike, the thud), not a ringing mode.
+        if (r.noiseLike) {
+          unresolved++;
+          continue;
+        }
+        if (r.steadyLine) lines.push({ line: { ...r.steadyLine, leadIn: leadInEvidence(leadIn(r.steadyLine.frequencyHz), r.steadyLine.amplitudeDb) }, candidate: null });
+        const steady = !(r.alpha > 3 * r.alphaUncertainty) || r.alpha <= 0;
+        const decayDb = (20 / Math.LN10) * r.alpha * ((analysisStart + segLen) / fs - onset / fs);
+        if (steady || decayDb < 3) {
+          lines.push({ line: { frequencyHz: p.frequencyHz, frequencyUncertaintyHz: p.frequencyUncertaintyHz, amplitudeDb: p.amplitudeDb, leadIn: leadInEvidence(leadIn(p.frequencyHz), p.amplitudeDb) }, candidate: steady || p.tauS <= 0 || p.q < MIN_Q ? null : r });
+          continue;
+        }
+        if (p.tauS <= 0) continue;
+        if (p.q < MIN_Q) continue;
+        refined.push(r);
       }
-      if (steady || p.tauS <= 0) continue;
-      if (p.q < MIN_Q) continue;
-      refined.push({ r, hum: false });
+      return unresolved;
+    };
+    const unresolved = refineAll(peaks, spec, MAX_PARTIALS);
+    // A second look, later: in a reverberant room the first window holds the room's early energy,
+    // whose random spectrum splits a partial into several peaks (bands too narrow to measure). In
+    // the next window the room has died down and the partials stand out; peaks there that no
+    // measured partial explains are refined too.
+    if (unresolved > 0 && available >= 2 * lp) {
+      const spec2 = windowedSpectrum(mono, fitStart + lp, lp, fs);
+      const have = () => [...refined.map((r) => r.partial.frequencyHz), ...lines.map((l) => l.line.frequencyHz)];
+      const fresh = findPeaks(spec2, peakOptions).filter((q) => !have().some((f) => Math.abs(f - q.frequencyHz) < 4 * (fs / lp)));
+      if (fresh.length) refineAll(fresh, spec2, Math.max(0, MAX_PARTIALS - refined.length));
+    }
+    const judged = judgeHum(lines.map((l) => l.line));
+    lines.forEach((l, i) => {
+      if (judged.hum[i]) {
+        humSeen.add(round(l.line.frequencyHz, 1));
+        humFamilyHz = humFamilyHz ?? judged.mainsHz;
+      } else if (l.candidate) refined.push(l.candidate); // a slow partial, not hum: the unit rings longer than the recording
+    });
+    // A hard-walled room: where a partial showed an early stage, read the room's own decay from
+    // the strike's broadband sound. It counts only when a partial that outlasts the room shows the
+    // room's early energy too (a faster companion within a factor of 3 of the room's time constant): the
+    // broadband sound may also be the unit's own dense, fast high modes. A partial that dies away
+    // within about three of the room's time constants is then heard through the room's
+    // reverberation for its whole measurable decay: its τ and any "beat" are the room's as much
+    // as the unit's.
+    if (refined.some((r) => r.fastCompanion)) {
+      const room = roomDecay(mono, onset, segEnd, fs, peaks.map((q) => q.frequencyHz));
+      const seen = room && refined.some((r) => r.partial.tauS >= 4 * room.tauS && r.fastCompanionTauS > room.tauS / 3 && r.fastCompanionTauS < 3 * room.tauS);
+      if (room && seen) {
+        for (const r of refined) {
+          if (!(r.partial.tauS < ROOM_MASK_FACTOR * room.tauS)) continue;
+          r.partial = { ...r.partial, roomMasked: true, tauUnreliable: true, beatHz: null, modes: undefined };
+          masked.push({ hz: r.partial.frequencyHz, rt60S: room.rt60S });
+        }
+      }
     }
     // The same partial reached from two peaks: keep the stronger.
     const kept: RefinedPartial[] = [];
-    for (const { r } of refined.filter((x) => !x.hum).sort((a, b) => b.r.partial.amplitudeDb - a.r.partial.amplitudeDb)) {
+    for (const r of [...refined].sort((a, b) => b.partial.amplitudeDb - a.partial.amplitudeDb)) {
       const dup = kept.some((k) => Math.abs(k.partial.frequencyHz - r.partial.frequencyHz) < Math.max(0.5, 3 * (k.partial.frequencyUncertaintyHz + r.partial.frequencyUncertaintyHz)));
       if (!dup) kept.push(r);
     }
     kept.sort((a, b) => a.partial.frequencyHz - b.partial.frequencyHz);
     result.partials = kept.map((k) => cleanPartial(k.partial));
-    for (const k of kept) if (k.partial.tauUnreliable) unreliable.push(k.partial.frequencyHz);
+    for (const k of kept) {
+      if (k.partial.roomMasked) continue;
+      if (k.partial.earlyStageOverlap) overlap.push(k.partial.frequencyHz);
+      else if (k.partial.nonExponential) notExponential.push(k.partial.frequencyHz);
+      else if (k.partial.tauUnreliable) unreliable.push(k.partial.frequencyHz);
+    }
     partialCount += kept.length;
     if (options.plot) result.plot = makePlot(spec, [...humSeen], kept);
     if (kept.length === 0) warn("no_partials", "No partials clear of the noise were found in a strike. Strike the unit more firmly or move the microphone closer.");
@@ -200,12 +272,37 @@ export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } =
   }
   if (humSeen.size > 0) {
     const list = [...humSeen].sort((a, b) => a - b);
-    const mains = humFundamental(list[0]) ?? 50;
+    const mains = humFamilyHz ?? 50;
     warn("hum", `Mains hum (${mains} Hz family: ${list.slice(0, 6).map((f) => f.toFixed(1)).join(", ")} Hz) was found and ignored. Keep mains cables, chargers and transformers away from the microphone.`);
   }
   if (unreliable.length > 0) {
     const list = [...new Set(unreliable.map((f) => f.toFixed(1)))];
     warn("tau_unreliable", `The partial${list.length > 1 ? "s" : ""} at ${list.slice(0, 6).join(", ")} Hz decayed less than 3 dB during the recording, so τ, T60 and Q are not reliable there: a longer recording is needed (keep recording until the ringing has clearly died down).`);
+  }
+  if (notExponential.length > 0) {
+    const list = [...new Set(notExponential.map((f) => f.toFixed(1)))];
+    const one = list.length === 1;
+    warn(
+      "not_exponential",
+      `The decay of the partial${one ? "" : "s"} at ${list.slice(0, 6).join(", ")} Hz is not exponential: ${one ? "its" : "their"} level does not fall along a straight line in dB (a fade, a hand or stand damping the unit and then letting go, or something touching it), so no single τ, T60 or Q describes ${one ? "it" : "them"} and they are marked unreliable. Let the unit ring freely on its usual support, with nothing touching it, and record the strike again; an edited or faded file cannot be measured.`,
+    );
+  }
+  if (masked.length > 0) {
+    const list = [...new Set(masked.map((m) => m.hz.toFixed(1)))];
+    const rt = Math.max(...masked.map((m) => m.rt60S));
+    const one = list.length === 1;
+    warn(
+      "reverberant_room",
+      `The room rings on for about ${rt.toFixed(1)} s (its reverberation time, read from the strike's own sound), nearly as long as the partial${one ? "" : "s"} at ${list.slice(0, 6).join(", ")} Hz: ${one ? "its" : "their"} decay cannot be told apart from the room's, so τ, T60 and Q are marked unreliable there and no beat is reported. Record with the microphone much closer to the unit (a hand's width), away from bare walls and hard benches, or hang blankets or foam panels around the recording place.`,
+    );
+  }
+  if (overlap.length > 0) {
+    const list = [...new Set(overlap.map((f) => f.toFixed(1)))];
+    const one = list.length === 1;
+    warn(
+      "early_decay_overlap",
+      `The partial${one ? "" : "s"} at ${list.slice(0, 6).join(", ")} Hz start${one ? "s" : ""} with a faster early decay that lasts through the whole measurable decay, so the unit's own decay is never heard alone and τ, T60 and Q are marked unreliable there. In a hard-walled room this is the room's early reflections; otherwise a hand or support damping the unit at first. Record closer to the unit, away from walls, and let it ring freely.`,
+    );
   }
   const t3 = now();
   if (timings) {

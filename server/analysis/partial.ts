@@ -5,7 +5,8 @@
 import type { Partial } from "../../shared/schemas/analysis";
 import { LN_1000 } from "../../shared/physics";
 import { BAND_GUARD, extractBand, type Band } from "./band";
-import { fitOrders, informationCriterion, type DampedFit } from "./damped-fit";
+import { fitOrders, informationCriterion, refine, type DampedFit } from "./damped-fit";
+import { checkEnvelope } from "./envelope-check";
 
 export interface PartialRequest {
   /** Interleaved DFT bins 0…M/2 of the strike segment (zero-padded to M). */
@@ -22,6 +23,8 @@ export interface PartialRequest {
   peaksHz: number[];
   /** Distance from the group to the nearest other spectral peak, Hz. */
   neighbourHz: number;
+  /** Noise at the partial: variance per sample of the white noise with the local spectral floor's density (full scale = 1). */
+  noisePower: number;
 }
 
 export interface RefinedPartial {
@@ -30,6 +33,18 @@ export interface RefinedPartial {
   alpha: number;
   alphaUncertainty: number;
   envelope: { timeS: number[]; levelDb: number[]; noiseFloorDb: number };
+  /** The band's envelope parts erratically from every model: noise (a room's diffuse tail, the
+   *  strike's thud), not a partial. */
+  noiseLike: boolean;
+  /** A steady line fitted together with the partial (hum, a tone in the room), when there was one. */
+  steadyLine: { frequencyHz: number; frequencyUncertaintyHz: number; amplitudeDb: number } | null;
+  /** Length of the fit window, s. */
+  windowS: number;
+  /** The fit found a faster companion at the partial's frequency: an early stage (a damped start,
+   *  or the room's early energy). */
+  fastCompanion: boolean;
+  /** Its time constant, s (NaN without one). */
+  fastCompanionTauS: number;
 }
 
 const MAX_K = 4096;
@@ -40,6 +55,8 @@ const MAX_BAND_SAMPLES = 8192;
 const MIN_FIT_SAMPLES = 24;
 /** Band samples skipped after an abrupt start (the filter's edge response, ≈ 4 samples wide). */
 const EDGE = 6;
+/** 20·log10(e): dB per neper of amplitude. */
+const DB_PER_NEPER = 20 / Math.LN10;
 
 function pow2Floor(x: number): number {
   return x < 1 ? 1 : 2 ** Math.floor(Math.log2(x));
@@ -66,8 +83,12 @@ interface ModeOut {
   im: number;
 }
 
-/** Refines one partial (or a close pair). Returns null when there is too little signal to fit. */
-export function refinePartial(r: PartialRequest): RefinedPartial | null {
+/**
+ * Refines one partial (or a close pair). Returns null when there is too little signal to fit, and
+ * "unresolved" when the band held something the fit could not follow (a decay faster than the band
+ * allows, or one that had died down before its window opened).
+ */
+export function refinePartial(r: PartialRequest): RefinedPartial | "unresolved" | null {
   const centre = r.peaksHz.reduce((s, f) => s + f, 0) / r.peaksHz.length;
   const kMax = chooseK(r);
   const bandAt = (K: number): Band | null => {
@@ -146,7 +167,8 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
   const y = band.y.subarray(2 * mStart, 2 * (mEnd + 1));
   const n = mEnd - mStart + 1;
 
-  // Pass 2: one and two modes over the fit window; the information criterion chooses.
+  // Pass 2: one and two modes over the fit window; the information criterion chooses, and a pair
+  // is then classified by what its modes are (classifyPair).
   const { one, two } = fitOrders(y, band.dt, true, r.peaksHz.length > 1);
   if (!one) return null;
   // Uncertainties are the Cramér–Rao bound evaluated at the fit (damped-fit.ts), and approximate
@@ -156,46 +178,62 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
   // (2) the band samples are treated as independent; (3) model error (a decay that is not
   // exponential, an unmodelled neighbour) is not included — the bound is what noise alone allows.
   // The reference tests check that the errors on synthetic strikes scatter as these bounds say.
+  // Model error is estimated apart (tauModelUncertaintyS, from the envelope check).
   const noiseWhite = (f: DampedFit) => f.sigma2 / band!.taperPower;
   const cov = (f: DampedFit) => {
     const s = noiseWhite(f) / 2;
     return f.inverseNormal ? f.inverseNormal.map((v) => v * s) : null;
   };
+  const windowS = n * band.dt;
+  // The band's noise variance per sample, independent of any fit: the spectrum's local floor
+  // (white noise of variance σ²ₓ per sample gives var(y) = L·σ²ₓ·mean(taper²)/K in the band),
+  // or the one-mode residual when that is lower (the early floor may hold the strike's own
+  // reverberation).
+  const bandNoise = Math.min((r.segLen * r.noisePower * band.taperPower) / band.K, one.sigma2);
+  const fallDb = checkEnvelope(y, band.dt, one.modes, bandNoise).observedDecayDb;
   let chosen: DampedFit = one;
-  let kind: "single" | "doublet" | "twoStage" = "single";
-  if (two && informationCriterion(two) < informationCriterion(one) && validTwo(two, cov(two), band, n, y)) {
-    const C = cov(two)!;
-    const np = 8;
-    const [p, q] = two.modes;
-    const dw = p.omega - q.omega;
-    const varDw = C[3 * np + 3] + C[7 * np + 7] - 2 * C[3 * np + 7];
-    const da = p.alpha - q.alpha;
-    const varDa = C[2 * np + 2] + C[6 * np + 6] - 2 * C[2 * np + 6];
-    if (Math.abs(dw) > 3 * Math.sqrt(Math.max(varDw, 0))) kind = "doublet";
-    else if (Math.abs(da) > 3 * Math.sqrt(Math.max(varDa, 0))) kind = "twoStage";
-    if (kind !== "single") chosen = two;
-  } else if (r.peaksHz.length > 1 && two && validTwo(two, cov(two), band, n, y)) {
-    // Two peaks the FFT already resolved: two modes by construction.
-    chosen = two;
-    kind = "doublet";
+  let pair: PairClass = { kind: "single", main: 0, companion: null };
+  if (two && validTwo(two, cov(two), band, n, y) && (informationCriterion(two) < informationCriterion(one) || r.peaksHz.length > 1)) {
+    pair = classifyPair(two, cov(two)!, band.centreHz, centre, windowS, r.peaksHz.length > 1, fallDb);
+    if (pair.kind !== "single") chosen = two;
   }
+  let kind: "single" | "doublet" | "twoStage" = pair.kind === "main" ? "single" : pair.kind;
   let reported: DampedFit = chosen;
   let C = cov(chosen);
-  if (kind === "doublet" && r.peaksHz.length === 1 && C) {
-    // The spectrum showed one peak, so a true doublet here is closer than the FFT resolves
-    // (a few Hz). A second mode further away is a weaker neighbour inside the band (hum, another
-    // partial's skirt): keep it in the model, but report only the mode at the peak, with its
-    // marginal covariance (the 4×4 block of the full one).
-    const [m0f, m1f] = chosen.modes.map((m) => band!.centreHz + m.omega / (2 * Math.PI));
-    if (Math.abs(m0f - m1f) > Math.max(8, 0.005 * centre)) {
-      const main = Math.abs(m0f - centre) <= Math.abs(m1f - centre) ? 0 : 1;
-      reported = { ...chosen, modes: [chosen.modes[main]] };
-      const sub = new Float64Array(16);
-      for (let i = 0; i < 4; i++) for (let j = 0; j < 4; j++) sub[i * 4 + j] = C[(4 * main + i) * 8 + 4 * main + j];
-      C = sub;
-      kind = "single";
+  if (pair.kind === "main" && C) {
+    // One mode is the partial; the other (a weaker neighbour inside the band, a steady line, the
+    // room's early energy, a beat too weak to matter) stays in the model but is not reported:
+    // the partial gets its marginal covariance (the 4×4 block of the full one).
+    const main = pair.main;
+    reported = { ...chosen, modes: [chosen.modes[main]] };
+    const sub = new Float64Array(16);
+    for (let i = 0; i < 4; i++) for (let j = 0; j < 4; j++) sub[i * 4 + j] = C[(4 * main + i) * 8 + 4 * main + j];
+    C = sub;
+  }
+  // A fast companion (an early stage, or the room's early energy) is only approximately one more
+  // exponential. Where the window allows, the reported (slow) mode is fitted again alone, from
+  // where the fast one has fallen 40 dB below it: from there on the band is one damped exponential.
+  let late: { fit: DampedFit; C: Float64Array; startS: number; endS: number } | null = null;
+  if (pair.companion === "fast" && chosen.modes.length === 2) {
+    const slow = chosen.modes[pair.main];
+    const fast = chosen.modes[1 - pair.main];
+    const aSlow = Math.hypot(slow.re, slow.im);
+    const tLate = Math.log((Math.hypot(fast.re, fast.im) / aSlow) * 100) / (fast.alpha - slow.alpha);
+    const mLate = Math.ceil(Math.max(0, tLate) / band.dt);
+    // The window was cut where the early fit met the noise; the slow mode alone rings on until
+    // its own envelope falls to twice the noise RMS.
+    const tQuiet = Math.log(aSlow / (2 * Math.sqrt(bandNoise))) / slow.alpha;
+    const mLast = Math.min(mEndMax - mStart, Math.max(n - 1, Number.isFinite(tQuiet) ? Math.floor(tQuiet / band.dt) : n - 1));
+    if (Number.isFinite(tLate) && mLast - mLate + 1 >= Math.max(2 * MIN_FIT_SAMPLES, 0.25 * n)) {
+      const yl = band.y.subarray(2 * (mStart + mLate), 2 * (mStart + mLast + 1));
+      const lf = refine(yl, band.dt, [{ alpha: slow.alpha, omega: slow.omega }]);
+      const lc = lf ? cov(lf) : null;
+      if (lf && lc && lf.modes[0].alpha > 0) late = { fit: lf, C: lc, startS: (r.segStart + (mStart + mLate) * step) / r.sampleRate, endS: (r.segStart + (mStart + mLast) * step) / r.sampleRate };
     }
   }
+  // An early stage that overlaps the whole measurable decay leaves no stretch where the unit's own
+  // decay is alone: its τ is a two-mode approximation of something that is not two modes.
+  const earlyStageOverlap = pair.companion === "fast" && !late;
   const p = reported.modes.length;
   const np = 4 * p;
   const modes: ModeOut[] = reported.modes.map((m) => ({
@@ -207,7 +245,7 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
   }));
   const varOf = (i: number, j: number) => (C ? C[i * np + j] : NaN);
   const fitStartS = (r.segStart + mStart * step) / r.sampleRate;
-  const fitEndS = (r.segStart + mEnd * step) / r.sampleRate;
+  const fitEndS = Math.max((r.segStart + mEnd * step) / r.sampleRate, late?.endS ?? 0);
   const onsetS = r.onsetSample / r.sampleRate;
   const endOfRecordingS = (r.segStart + r.segLen) / r.sampleRate;
   // Amplitudes are reported at the end of the strike transient, common to all partials of the
@@ -235,14 +273,15 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
   let beatHz: number | null = null;
   const tauVar = (k: number, l: number) => varOf(4 * k + 2, 4 * l + 2) / (modes[k].alpha ** 2 * modes[l].alpha ** 2);
   if (kind === "twoStage") {
-    const e = modes[0].alpha > modes[1].alpha ? 0 : 1;
-    const l = 1 - e;
+    const l = pair.main;
+    const e = 1 - l;
     tauS = 1 / modes[l].alpha;
     tauUncertaintyS = Math.sqrt(Math.max(tauVar(l, l), 0));
+    frequencyHz = modes[l].f;
+    frequencyUncertaintyHz = Math.sqrt(Math.max(varOf(4 * l + 3, 4 * l + 3), 0)) / (2 * Math.PI);
     const ratio = modes[e].a / modes[l].a;
     const knee = fitStartS + Math.log(ratio) / (modes[e].alpha - modes[l].alpha);
-    twoStage = { earlyTauS: 1 / modes[e].alpha, lateTauS: tauS, kneeS: Math.max(onsetS, knee) };
-    // Coherent sum at the onset (same frequency, so the phases add).
+    // Coherent sum at the onset (nearly the same frequency, so the phases add).
     let sr = 0;
     let si = 0;
     for (const m of modes) {
@@ -251,6 +290,7 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
       si += m.im * g;
     }
     amplitude = band.ampScale * Math.hypot(sr, si);
+    twoStage = { earlyTauS: 1 / modes[e].alpha, lateTauS: tauS, kneeS: Math.max(onsetS, knee) };
   } else {
     tauS = 0;
     let vt = 0;
@@ -273,11 +313,47 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
         .sort((x, z) => x.frequencyHz - z.frequencyHz);
     }
   }
+  if (late) {
+    // The slow mode from its own, later window: frequency and τ (with their bounds) come from there.
+    const m = late.fit.modes[0];
+    frequencyHz = band.centreHz + m.omega / (2 * Math.PI);
+    frequencyUncertaintyHz = Math.sqrt(Math.max(late.C[15], 0)) / (2 * Math.PI);
+    tauS = 1 / m.alpha;
+    tauUncertaintyS = Math.sqrt(Math.max(late.C[10], 0)) / (m.alpha * m.alpha);
+    if (twoStage) twoStage = { ...twoStage, lateTauS: tauS };
+  }
   if (!Number.isFinite(frequencyUncertaintyHz)) frequencyUncertaintyHz = NaN;
+  // A band too narrow to follow the decay (the neighbours forced a low rate) or a window that
+  // opens long after the strike leaves only an extrapolation: a decay of less than two band
+  // samples per τ, or a partial that had already fallen 26 dB (3 τ) when its window opened, is
+  // not measured here. (A strike's skirt or the room's tail beside a stronger partial looks so.)
+
+  if (!(band.dt < 0.5 * tauS) || (fitStartS - amplitudeAtS) / tauS > 2) return "unresolved";
 
   const sigma = Math.sqrt(chosen.sigma2);
-  const fitR2 = envelopeR2(y, chosen, band.dt);
-  const decayDb = (20 / Math.LN10) * (endOfRecordingS - onsetS) / tauS;
+  // The model (all its modes, reported or not) against the band's own envelope.
+  const check = checkEnvelope(y, band.dt, chosen.modes, bandNoise);
+  const nonExponential = check.notExponential;
+  // Model error as a type B estimate: a deviation beyond what noise explains, read as a tilt of
+  // the fitted line over the window, is a slope error of √12·D/T (the RMS of a line tilted about
+  // its centre is slope·T/√12), so u(τ)/τ = √12·D/(decay over the window, dB).
+  const excessDb = Math.sqrt(Math.max(0, check.deviationDb ** 2 - check.noiseDeviationDb ** 2));
+  const modelDecayDb = (DB_PER_NEPER * windowS) / tauS;
+  const tauModelUncertaintyS = excessDb > 0 && modelDecayDb > 0 ? (tauS * Math.sqrt(12) * excessDb) / modelDecayDb : 0;
+  const decayDb = (DB_PER_NEPER * (endOfRecordingS - onsetS)) / tauS;
+  const steadyLine =
+    pair.companion === "steady" && two
+      ? (() => {
+          const k = 1 - pair.main;
+          const m = two.modes[k];
+          const C2 = cov(two);
+          return {
+            frequencyHz: band.centreHz + m.omega / (2 * Math.PI),
+            frequencyUncertaintyHz: C2 ? Math.sqrt(Math.max(C2[(4 * k + 3) * 8 + 4 * k + 3], 0)) / (2 * Math.PI) : NaN,
+            amplitudeDb: 20 * Math.log10(band.ampScale * Math.hypot(m.re, m.im)),
+          };
+        })()
+      : null;
   const partial: Partial = {
     frequencyHz,
     frequencyUncertaintyHz,
@@ -287,13 +363,18 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
     tauUncertaintyS,
     t60S: tauS * LN_1000,
     q: Math.PI * frequencyHz * tauS,
-    fitR2,
+    fitR2: check.r2,
     beatHz,
     ...(modesOut ? { modes: modesOut } : {}),
     twoStage,
     fitStartS,
     fitEndS,
-    tauUnreliable: !(tauS > 0) || decayDb < 3,
+    tauUnreliable: !(tauS > 0) || decayDb < 3 || nonExponential || earlyStageOverlap,
+    nonExponential,
+    ...(earlyStageOverlap ? { earlyStageOverlap } : {}),
+    envelopeDeviationDb: check.deviationDb,
+    observedDecayDb: check.observedDecayDb,
+    tauModelUncertaintyS,
     // SNR at the fit start within this partial's analysis band: the partial's amplitude over the
     // band's noise RMS, the same two levels the decay plot shows (envelope and noise floor).
     snrDb: 20 * Math.log10(Math.sqrt(ptot) / (band.ampScale * (sigma || 1e-300))),
@@ -303,7 +384,86 @@ export function refinePartial(r: PartialRequest): RefinedPartial | null {
     alpha: 1 / tauS,
     alphaUncertainty: Number.isFinite(tauUncertaintyS) ? tauUncertaintyS / (tauS * tauS) : Infinity,
     envelope: envelopeSeries(band, nSeg, r.segStart, r.sampleRate, sigma),
+    noiseLike: check.erratic,
+    steadyLine,
+    windowS,
+    fastCompanion: pair.companion === "fast",
+    fastCompanionTauS: pair.companion === "fast" ? 1 / chosen.modes[1 - pair.main].alpha : NaN,
   };
+}
+
+/** What the two modes of a two-mode fit are. `main` is the mode to report when kind is "main" or
+ *  "twoStage" (the slow one); `companion` says what the other one is. */
+interface PairClass {
+  kind: "single" | "doublet" | "twoStage" | "main";
+  main: number;
+  companion: "far" | "steady" | "fast" | "weak" | null;
+}
+
+/** A doublet's envelope may fall by this much more than its modes' own damping explains (a beat
+ *  null inside the window) before the pair is taken for two cancelling modes drawing a decay that
+ *  is not exponential at all. Our threshold: two modes of equal decay whose amplitudes differ by
+ *  a factor of 2 give at most 9.5 dB; a tone under a linear fade gives 30 dB and more. */
+const EXCESS_FALL_DB = 12;
+/** The weaker mode of a doublet must carry at least 1 % of the stronger one's energy in the window
+ *  (its beat then swings the envelope by ≥ 1.7 dB); a weaker one is a neighbour, not a doublet. */
+const MIN_DOUBLET_ENERGY_RATIO = 0.01;
+/** …and ring for a comparable time: decay rates within a factor of 3 (the two modes of a split
+ *  degenerate pair lose energy the same ways; our threshold). A much faster companion is an early
+ *  stage or the room's early energy beside the partial. */
+const MAX_DOUBLET_DECAY_RATIO = 3;
+
+/**
+ * Classifies a two-mode fit (Hz offsets from the band centre `bandCentreHz`; `peakHz` the peak
+ * the band was cut around). In order:
+ * 1. modes further apart than max(8 Hz, 0.5 %) with one spectral peak: a neighbour inside the band;
+ * 2. one mode steady (no decay within the window) and the other decaying: a steady line (hum, a
+ *    tone in the room) beside the struck partial, fitted together; the partial is reported;
+ * 3. frequency gap below the faster mode's linewidth 1/(π·τ_fast) and decay rates more than 2×
+ *    apart: one partial with an early decay stage (a damped start, the room's early energy), not a
+ *    doublet — the slow decay is the unit's;
+ * 4. no significant frequency gap: a two-stage decay when the rates differ, else a single mode;
+ * 5. a doublet only when both modes ring comparably (energy within 20 dB, decay rates within 3×)
+ *    and the beat is observable: the envelope
+ *    may not fall far more than the damping explains while less than one beat fits in the window.
+ */
+function classifyPair(f: DampedFit, C: Float64Array, bandCentreHz: number, peakHz: number, windowS: number, forced: boolean, fallDb: number): PairClass {
+  const np = 8;
+  const [p, q] = f.modes;
+  const fHz = f.modes.map((m) => bandCentreHz + m.omega / (2 * Math.PI));
+  const gapHz = Math.abs(fHz[0] - fHz[1]);
+  if (!forced && gapHz > Math.max(8, 0.005 * peakHz)) {
+    return { kind: "main", main: Math.abs(fHz[0] - peakHz) <= Math.abs(fHz[1] - peakHz) ? 0 : 1, companion: "far" };
+  }
+  const sdAlpha = (k: number) => Math.sqrt(Math.max(C[(4 * k + 2) * np + 4 * k + 2], 0));
+  const decayDb = (k: number) => DB_PER_NEPER * f.modes[k].alpha * windowS;
+  const steady = (k: number) => !(f.modes[k].alpha > 3 * sdAlpha(k)) || decayDb(k) < 0.5;
+  const decaying = (k: number) => f.modes[k].alpha > 3 * sdAlpha(k) && decayDb(k) >= 3;
+  for (const k of [0, 1]) if (steady(1 - k) && decaying(k)) return { kind: "main", main: k, companion: "steady" };
+  const fast = p.alpha > q.alpha ? 0 : 1;
+  const slow = 1 - fast;
+  const aFast = f.modes[fast].alpha;
+  const aSlow = f.modes[slow].alpha;
+  if (aSlow > 0 && gapHz < aFast / Math.PI && aFast > 2 * aSlow) return { kind: "twoStage", main: slow, companion: "fast" };
+  const dw = p.omega - q.omega;
+  const varDw = C[3 * np + 3] + C[7 * np + 7] - 2 * C[3 * np + 7];
+  const da = p.alpha - q.alpha;
+  const varDa = C[2 * np + 2] + C[6 * np + 6] - 2 * C[2 * np + 6];
+  if (!forced && !(Math.abs(dw) > 3 * Math.sqrt(Math.max(varDw, 0)))) {
+    return Math.abs(da) > 3 * Math.sqrt(Math.max(varDa, 0)) ? { kind: "twoStage", main: slow, companion: aFast > 2 * aSlow ? "fast" : null } : { kind: "single", main: 0, companion: null };
+  }
+  const energy = f.modes.map((m) => {
+    const a2 = m.re * m.re + m.im * m.im;
+    return m.alpha * windowS > 1e-9 ? (a2 * (1 - Math.exp(-2 * m.alpha * windowS))) / (2 * m.alpha) : a2 * windowS;
+  });
+  const strong = energy[0] >= energy[1] ? 0 : 1;
+  if (!(energy[1 - strong] >= MIN_DOUBLET_ENERGY_RATIO * energy[strong]) || aFast > MAX_DOUBLET_DECAY_RATIO * aSlow) {
+    return { kind: "main", main: strong, companion: f.modes[1 - strong].alpha > 2 * f.modes[strong].alpha ? "fast" : "weak" };
+  }
+  const a2 = f.modes.map((m) => m.re * m.re + m.im * m.im);
+  const meanAlpha = (a2[0] * p.alpha + a2[1] * q.alpha) / (a2[0] + a2[1]);
+  if (gapHz * windowS < 1 && fallDb - DB_PER_NEPER * meanAlpha * windowS > EXCESS_FALL_DB) return { kind: "single", main: 0, companion: null };
+  return { kind: "doublet", main: strong, companion: null };
 }
 
 function validTwo(f: DampedFit, C: Float64Array | null, band: Band, n: number, y: Float64Array): boolean {
@@ -328,45 +488,6 @@ function validTwo(f: DampedFit, C: Float64Array | null, band: Band, n: number, y
   // Two huge modes that cancel each other are an ill-conditioned fit, not two modes. Real doublets
   // can start nearly in anti-phase (the sum then grows as the beat turns), so allow 20 dB.
   return modeEnergy < 100 * dataEnergy;
-}
-
-/** R² of the fitted envelope (modes plus the noise floor) against the data, in dB, over blocks. */
-function envelopeR2(y: Float64Array, fit: DampedFit, dt: number): number {
-  const n = y.length / 2;
-  const blocks = Math.min(64, Math.floor(n / 2));
-  const per = Math.floor(n / blocks);
-  const data: number[] = [];
-  const model: number[] = [];
-  const p = fit.modes.length;
-  for (let b = 0; b < blocks; b++) {
-    let ed = 0;
-    let em = 0;
-    for (let i = b * per; i < (b + 1) * per; i++) {
-      ed += y[2 * i] ** 2 + y[2 * i + 1] ** 2;
-      let mr = 0;
-      let mi = 0;
-      for (let k = 0; k < p; k++) {
-        const m = fit.modes[k];
-        const g = Math.exp(-m.alpha * i * dt);
-        const c = Math.cos(m.omega * i * dt);
-        const s = Math.sin(m.omega * i * dt);
-        mr += g * (m.re * c - m.im * s);
-        mi += g * (m.re * s + m.im * c);
-      }
-      em += mr * mr + mi * mi + fit.sigma2;
-    }
-    data.push(10 * Math.log10(ed / per + 1e-300));
-    model.push(10 * Math.log10(em / per + 1e-300));
-  }
-  const mean = data.reduce((s, v) => s + v, 0) / blocks;
-  let ssTot = 0;
-  let ssRes = 0;
-  for (let b = 0; b < blocks; b++) {
-    ssTot += (data[b] - mean) ** 2;
-    ssRes += (data[b] - model[b]) ** 2;
-  }
-  if (!(ssTot > 0)) return 0;
-  return Math.max(0, Math.min(1, 1 - ssRes / ssTot));
 }
 
 /** Envelope (dB re full scale, peak amplitude) over the whole segment, at most 600 points. */

@@ -8,6 +8,7 @@ import { z } from "zod";
 export const warningSchema = z.object({
   code: z.enum([
     "clipped",
+    "flat_topped",
     "dc_offset",
     "low_sample_rate",
     "low_level",
@@ -16,6 +17,9 @@ export const warningSchema = z.object({
     "hum",
     "short_recording",
     "tau_unreliable",
+    "not_exponential",
+    "early_decay_overlap",
+    "reverberant_room",
     "no_partials",
   ]),
   message: z.string(),
@@ -39,7 +43,8 @@ export const partialSchema = z.object({
   t60S: z.number(),
   /** Q = π·f·τ. */
   q: z.number(),
-  /** Coefficient of determination of the decay fit (dB envelope), 0…1. */
+  /** Coefficient of determination of the fitted model's envelope against the isolated band's own
+   *  envelope (its level in dB, block by block over the fit window), 0…1. */
   fitR2: z.number(),
   /** Beat frequency of a doublet, Hz; null when the partial is a single mode. */
   beatHz: z.number().nullable(),
@@ -52,8 +57,26 @@ export const partialSchema = z.object({
   /** Time range (from the file start) over which the decay was fitted, s. */
   fitStartS: z.number(),
   fitEndS: z.number(),
-  /** True when the partial decayed less than 3 dB within the recording: τ needs a longer recording. */
+  /** True when τ, T60 and Q are not reliable: the partial decayed less than 3 dB within the
+   *  recording (τ needs a longer recording), or its decay is not exponential (nonExponential). */
   tauUnreliable: z.boolean(),
+  /** True when the isolated band's envelope parts from the fitted decay by more than the check's
+   *  tolerance (1.5 dB RMS): the decay is not exponential, so no single τ describes it. */
+  nonExponential: z.boolean().optional(),
+  /** True when a faster early stage (the room's early energy, a damped start) overlaps the whole
+   *  measurable decay, so the unit's own decay is never seen alone: τ, T60 and Q are unreliable. */
+  earlyStageOverlap: z.boolean().optional(),
+  /** True when the room's reverberation (read from the strike's broadband sound) lasts nearly as long
+   *  as this partial's decay, so the two cannot be told apart: τ, T60 and Q are unreliable. */
+  roomMasked: z.boolean().optional(),
+  /** RMS difference between the band's envelope and the model's, dB, over the fit window. */
+  envelopeDeviationDb: z.number().optional(),
+  /** How far the partial's envelope fell within the fit window, dB: the decay the recording saw.
+   *  T60 (60 dB) is extrapolated from it. */
+  observedDecayDb: z.number().optional(),
+  /** Standard uncertainty of τ from model error (k = 1), s: the envelope's deviation beyond noise,
+   *  read as a slope error. Add it in quadrature to tauUncertaintyS. */
+  tauModelUncertaintyS: z.number().optional(),
   /** Signal-to-noise ratio of this partial at the fit start, dB. */
   snrDb: z.number().optional(),
 });
