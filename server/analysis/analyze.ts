@@ -43,6 +43,7 @@ const DC_LIMIT = 0.005;
  *  (our threshold: the room's share of the band falls 40 dB only after about 2.3 room time
  *  constants more than the partial's own, so shorter decays are never seen alone). */
 const ROOM_MASK_FACTOR = 3;
+const DB_PER_NEPER = 20 / Math.LN10;
 
 const now = () => performance.now();
 
@@ -84,6 +85,13 @@ export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } =
   }
   if (decoded.clippedRuns > 0) {
     warn("clipped", `The recording is clipped (${decoded.clippedRuns} run${decoded.clippedRuns === 1 ? "" : "s"} of samples at full scale, the last at ${(decoded.lastClippedFrame / fs).toFixed(2)} s); only the part after the clipping was analysed. Lower the input gain or strike more gently and record again.`);
+  }
+  if (decoded.flatTopRuns > 0) {
+    const levelDb = 20 * Math.log10(decoded.flatTopLevel);
+    warn(
+      "flat_topped",
+      `The recording has flat tops at its own loudest level (${levelDb.toFixed(1)} dBFS, ${decoded.flatTopRuns} run${decoded.flatTopRuns === 1 ? "" : "s"} of equal samples, the last at ${(decoded.lastFlatTopFrame / fs).toFixed(2)} s): it clipped before it was saved — in the microphone preamp or the recorder's input, or it was clipped and then turned down — even though it never reaches full scale. Clipping adds partials that are not in the metal, so only the part after the clipping was analysed. Turn the input gain or the microphone's sensitivity down, switch off any limiter or automatic gain, strike more gently, and record again.`,
+    );
   }
   if (layout.channels > 1) {
     const rmsDb = channelStats.map((c) => 20 * Math.log10(c.rms + 1e-12));
@@ -166,7 +174,7 @@ export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } =
     const leadIn = (fHz: number) => (leadInEnd > 0 ? leadInAmplitude(mono, 0, leadInEnd, fs, fHz) : null);
     /** Refines the groups of `list` (peaks of spectrum `sp`); returns how many bands held no
      *  measurable partial (noise, or a decay the band could not follow). */
-    const refineAll = (list: SpectralPeak[], sp: Spectrum, budget: number): number => {
+    const refineAll = (list: SpectralPeak[], sp: Spectrum, budget: number, context: SpectralPeak[] = list): number => {
       let unresolved = 0;
       const groups = groupPeaks(list.map((p) => p.frequencyHz));
       const powerOf = new Map(list.map((p) => [p.frequencyHz, p.powerDb]));
@@ -176,7 +184,7 @@ export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } =
         // ones inside the band act as a little extra noise; excluding them would shrink the band
         // until too few samples remain.
         const level = Math.max(...group.map((f) => powerOf.get(f)!));
-        const others = list.filter((p) => !group.includes(p.frequencyHz) && p.powerDb >= level - 20).map((p) => p.frequencyHz);
+        const others = context.filter((p) => !group.includes(p.frequencyHz) && p.powerDb >= level - 20).map((p) => p.frequencyHz);
         const lo = Math.min(...group);
         const hi = Math.max(...group);
         const neighbourHz = others.length ? Math.min(...others.map((f) => (f < lo ? lo - f : f > hi ? f - hi : 0))) : Infinity;
@@ -217,7 +225,8 @@ export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } =
       const spec2 = windowedSpectrum(mono, fitStart + lp, lp, fs);
       const have = () => [...refined.map((r) => r.partial.frequencyHz), ...lines.map((l) => l.line.frequencyHz)];
       const fresh = findPeaks(spec2, peakOptions).filter((q) => !have().some((f) => Math.abs(f - q.frequencyHz) < 4 * (fs / lp)));
-      if (fresh.length) refineAll(fresh, spec2, Math.max(0, MAX_PARTIALS - refined.length));
+      // Neighbours from both windows limit the bands (levels compared within each spectrum's own scale).
+      if (fresh.length) refineAll(fresh, spec2, Math.max(0, MAX_PARTIALS - refined.length), [...fresh, ...findPeaks(spec2, peakOptions)]);
     }
     const judged = judgeHum(lines.map((l) => l.line));
     lines.forEach((l, i) => {
@@ -237,8 +246,19 @@ export function analyzeWavTimed(bytes: Uint8Array, options: { plot?: boolean } =
       const room = roomDecay(mono, onset, segEnd, fs, peaks.map((q) => q.frequencyHz));
       const seen = room && refined.some((r) => r.partial.tauS >= 4 * room.tauS && r.fastCompanionTauS > room.tauS / 3 && r.fastCompanionTauS < 3 * room.tauS);
       if (room && seen) {
-        for (const r of refined) {
-          if (!(r.partial.tauS < ROOM_MASK_FACTOR * room.tauS)) continue;
+        for (let i = 0; i < refined.length; i++) {
+          const r = refined[i];
+          if (!(r.partial.tauS < ROOM_MASK_FACTOR * room.tauS)) {
+            // Outlasting the room: fit again from where the room's early energy (taken as up to
+            // 6 dB above the partial: DRR −6 dB) has fallen 46 dB below it, when the recording
+            // still holds the partial there; the amplitude stays referred to the strike.
+            const skip = (46 / DB_PER_NEPER) / (1 / room.tauS - 1 / r.partial.tauS);
+            const from = Math.round(onset + skip * fs);
+            if (!(from > fitStart) || r.partial.fitStartS * fs >= from) continue;
+            const again = refinePartial({ ...r.request, fitStartSample: from, amplitudeAtSample: fitStart });
+            if (again && again !== "unresolved" && !again.noiseLike && again.partial.tauS > 0 && Number.isFinite(again.partial.tauUncertaintyS)) refined[i] = again;
+            continue;
+          }
           r.partial = { ...r.partial, roomMasked: true, tauUnreliable: true, beatHz: null, modes: undefined };
           masked.push({ hz: r.partial.frequencyHz, rt60S: room.rt60S });
         }

@@ -19,6 +19,8 @@ export interface PartialRequest {
   onsetSample: number;
   /** First sample after the strike transient (and after any clipping). */
   fitStartSample: number;
+  /** Where amplitudeDb applies, when not at fitStartSample (a fit started late, after a room's early energy). */
+  amplitudeAtSample?: number;
   /** Peak frequencies (Hz) analysed together: one, or two close peaks (a resolved doublet). */
   peaksHz: number[];
   /** Distance from the group to the nearest other spectral peak, Hz. */
@@ -45,6 +47,8 @@ export interface RefinedPartial {
   fastCompanion: boolean;
   /** Its time constant, s (NaN without one). */
   fastCompanionTauS: number;
+  /** What was asked, so the partial can be refined again from a later start. */
+  request: PartialRequest;
 }
 
 const MAX_K = 4096;
@@ -233,7 +237,15 @@ export function refinePartial(r: PartialRequest): RefinedPartial | "unresolved" 
   }
   // An early stage that overlaps the whole measurable decay leaves no stretch where the unit's own
   // decay is alone: its τ is a two-mode approximation of something that is not two modes.
+  // The τ reported then is the one-mode fit's: the decay as the recording shows it, marked unreliable.
   const earlyStageOverlap = pair.companion === "fast" && !late;
+  const fastCompanionTauS = pair.companion === "fast" && two ? 1 / two.modes[1 - pair.main].alpha : NaN;
+  if (earlyStageOverlap) {
+    chosen = one;
+    reported = one;
+    C = cov(one);
+    kind = "single";
+  }
   const p = reported.modes.length;
   const np = 4 * p;
   const modes: ModeOut[] = reported.modes.map((m) => ({
@@ -250,7 +262,7 @@ export function refinePartial(r: PartialRequest): RefinedPartial | "unresolved" 
   const endOfRecordingS = (r.segStart + r.segLen) / r.sampleRate;
   // Amplitudes are reported at the end of the strike transient, common to all partials of the
   // strike: extrapolating a fast decay further back, into the transient, would inflate it.
-  const amplitudeAtS = r.fitStartSample / r.sampleRate;
+  const amplitudeAtS = (r.amplitudeAtSample ?? r.fitStartSample) / r.sampleRate;
   const back = fitStartS - amplitudeAtS;
 
   // Combined frequency and τ: power-weighted means (weights at the fit start), with their variance
@@ -301,6 +313,26 @@ export function refinePartial(r: PartialRequest): RefinedPartial | "unresolved" 
     tauUncertaintyS = Math.sqrt(Math.max(vt, 0));
     amplitude = Math.sqrt(modes.reduce((s, m) => s + (m.a * Math.exp(m.alpha * back)) ** 2, 0));
     if (kind === "doublet") {
+      // A doublet's τ is that of its beat-averaged energy, Σ|aₖ|²·e^(−2αₖt), as a straight line in
+      // dB over the window: the decay its envelope shows, which the modes' mean would miss when
+      // one of them rings on longer.
+      const pts = 32;
+      let st = 0, sl = 0, stt = 0, stl = 0;
+      for (let i = 0; i < pts; i++) {
+        const t = (windowS * i) / (pts - 1);
+        const e = modes.reduce((acc, m) => acc + m.a * m.a * Math.exp(-2 * m.alpha * t), 0);
+        const lv = 10 * Math.log10(e);
+        st += t;
+        sl += lv;
+        stt += t * t;
+        stl += t * lv;
+      }
+      const slope = (pts * stl - st * sl) / (pts * stt - st * st);
+      const tauEff = -DB_PER_NEPER / slope;
+      if (tauEff > 0 && Number.isFinite(tauEff)) {
+        tauUncertaintyS *= tauEff / tauS;
+        tauS = tauEff;
+      }
       beatHz = Math.abs(modes[0].f - modes[1].f);
       modesOut = modes
         .map((m, k) => ({
@@ -328,12 +360,17 @@ export function refinePartial(r: PartialRequest): RefinedPartial | "unresolved" 
   // samples per τ, or a partial that had already fallen 26 dB (3 τ) when its window opened, is
   // not measured here. (A strike's skirt or the room's tail beside a stronger partial looks so.)
 
-  if (!(band.dt < 0.5 * tauS) || (fitStartS - amplitudeAtS) / tauS > 2) return "unresolved";
+  if (tauS > 0 && Number.isFinite(tauS) && (!(band.dt < 0.5 * tauS) || (fitStartS - r.fitStartSample / r.sampleRate) / tauS > 2)) return "unresolved";
 
   const sigma = Math.sqrt(chosen.sigma2);
   // The model (all its modes, reported or not) against the band's own envelope.
   const check = checkEnvelope(y, band.dt, chosen.modes, bandNoise);
   const nonExponential = check.notExponential;
+  // A "doublet" whose model the band's envelope does not follow has no observed beat.
+  if (nonExponential && beatHz !== null) {
+    beatHz = null;
+    modesOut = undefined;
+  }
   // Model error as a type B estimate: a deviation beyond what noise explains, read as a tilt of
   // the fitted line over the window, is a slope error of √12·D/T (the RMS of a line tilted about
   // its centre is slope·T/√12), so u(τ)/τ = √12·D/(decay over the window, dB).
@@ -388,7 +425,8 @@ export function refinePartial(r: PartialRequest): RefinedPartial | "unresolved" 
     steadyLine,
     windowS,
     fastCompanion: pair.companion === "fast",
-    fastCompanionTauS: pair.companion === "fast" ? 1 / chosen.modes[1 - pair.main].alpha : NaN,
+    fastCompanionTauS,
+    request: r,
   };
 }
 
@@ -412,6 +450,10 @@ const MIN_DOUBLET_ENERGY_RATIO = 0.01;
  *  degenerate pair lose energy the same ways; our threshold). A much faster companion is an early
  *  stage or the room's early energy beside the partial. */
 const MAX_DOUBLET_DECAY_RATIO = 3;
+/** Decay rates further apart than this, with a gap under the faster mode's linewidth: an early
+ *  stage, not a doublet (the issue's "factor of about 2"; the two modes of a split pair lose
+ *  energy the same ways and stay well within it). */
+const EARLY_STAGE_RATIO = 2;
 
 /**
  * Classifies a two-mode fit (Hz offsets from the band centre `bandCentreHz`; `peakHz` the peak
@@ -437,14 +479,15 @@ function classifyPair(f: DampedFit, C: Float64Array, bandCentreHz: number, peakH
   }
   const sdAlpha = (k: number) => Math.sqrt(Math.max(C[(4 * k + 2) * np + 4 * k + 2], 0));
   const decayDb = (k: number) => DB_PER_NEPER * f.modes[k].alpha * windowS;
-  const steady = (k: number) => !(f.modes[k].alpha > 3 * sdAlpha(k)) || decayDb(k) < 0.5;
+  // Steady: under 1 dB of decay over the window, or under 2 dB and not significant.
+  const steady = (k: number) => Math.abs(decayDb(k)) < 1 || (!(f.modes[k].alpha > 3 * sdAlpha(k)) && decayDb(k) < 2);
   const decaying = (k: number) => f.modes[k].alpha > 3 * sdAlpha(k) && decayDb(k) >= 3;
   for (const k of [0, 1]) if (steady(1 - k) && decaying(k)) return { kind: "main", main: k, companion: "steady" };
   const fast = p.alpha > q.alpha ? 0 : 1;
   const slow = 1 - fast;
   const aFast = f.modes[fast].alpha;
   const aSlow = f.modes[slow].alpha;
-  if (aSlow > 0 && gapHz < aFast / Math.PI && aFast > 2 * aSlow) return { kind: "twoStage", main: slow, companion: "fast" };
+  if (aSlow > 0 && gapHz < aFast / Math.PI && aFast > EARLY_STAGE_RATIO * aSlow) return { kind: "twoStage", main: slow, companion: "fast" };
   const dw = p.omega - q.omega;
   const varDw = C[3 * np + 3] + C[7 * np + 7] - 2 * C[3 * np + 7];
   const da = p.alpha - q.alpha;

@@ -56,11 +56,15 @@ export function findOnsets(x: Float64Array, sampleRate: number): Onsets {
   const recent = Math.round(0.2 / HOP_S);
   const refractory = Math.round(REFRACTORY_S / HOP_S);
   // A file that starts in the middle of (or right at) a strike: the first frames are already loud.
+  // Compared as mean powers over 25 ms: the 5 ms frames of a steady low tone (mains hum) swing
+  // by many dB with its phase, so the loudest early frame of a file holding only hum would pass
+  // for a strike against the mean of frame levels in dB.
   let startLoud = false;
   {
-    let m = -Infinity;
-    for (let f = 0; f < Math.min(nf, 3); f++) m = Math.max(m, levelDb[f]);
-    startLoud = m >= quietDb + ABOVE_QUIET_DB;
+    const w = Math.min(nf, 5);
+    let first = 0;
+    for (let f = 0; f < w; f++) first += 10 ** (levelDb[f] / 10);
+    startLoud = 10 * Math.log10(first / w) >= quietestPowerDb(levelDb) + ABOVE_QUIET_DB;
   }
   let last = -Infinity;
   if (startLoud) {
@@ -118,4 +122,19 @@ function quietest(db: Float64Array): number {
     if (i >= w - 1) best = Math.min(best, sum / w);
   }
   return best;
+}
+
+/** Lowest mean power over 5 frames (25 ms), dB. */
+function quietestPowerDb(db: Float64Array): number {
+  const n = db.length;
+  const w = Math.min(5, n);
+  let best = Infinity;
+  let sum = 0;
+  const p = (i: number) => 10 ** (db[i] / 10);
+  for (let i = 0; i < n; i++) {
+    sum += p(i);
+    if (i >= w) sum -= p(i - w);
+    if (i >= w - 1) best = Math.min(best, sum / w);
+  }
+  return 10 * Math.log10(Math.max(best, 1e-30));
 }

@@ -252,8 +252,12 @@ export interface DecodedWav {
   /** Index of the last frame in a clipped run (≥ 3 consecutive samples at full scale), or −1. */
   lastClippedFrame: number;
   clippedRuns: number;
-  /** Clipped regions [first, last] frame, runs closer than 10 ms merged. */
+  /** Clipped regions [first, last] frame, runs closer than 10 ms merged (full scale and flat tops). */
   clipRegions: Array<[number, number]>;
+  /** Flat tops below full scale (see flatTops): runs, the level (full scale = 1) and the last frame. */
+  flatTopRuns: number;
+  flatTopLevel: number;
+  lastFlatTopFrame: number;
 }
 
 /** Minimum run of consecutive full-scale samples counted as clipping (a sine peak touches once). */
@@ -273,6 +277,9 @@ export function decodeWav(bytes: Uint8Array): DecodedWav {
   const peak = new Float64Array(nc);
   let lastClipped = -1;
   let clippedRuns = 0;
+  let flatTopRuns = 0;
+  let flatTopLevel = 0;
+  let lastFlat = -1;
   const clipRegions: Array<[number, number]> = [];
   const mergeGap = Math.round(layout.sampleRate * 0.01);
   let invalid = 0;
@@ -288,6 +295,8 @@ export function decodeWav(bytes: Uint8Array): DecodedWav {
     let s1 = 0;
     let s2 = 0;
     let pk = 0;
+    let mx = 0;
+    let mn = 0;
     let run = 0;
     let x = 0;
     for (let i = 0; i < frames; i++) {
@@ -306,6 +315,8 @@ export function decodeWav(bytes: Uint8Array): DecodedWav {
       s2 += v * v;
       const a = v < 0 ? -v : v;
       if (a > pk) pk = a;
+      if (v > mx) mx = v;
+      else if (v < mn) mn = v;
       if (a >= clipLevel) {
         run++;
         if (run >= CLIP_RUN) {
@@ -322,6 +333,18 @@ export function decodeWav(bytes: Uint8Array): DecodedWav {
     sumSq[c] = s2;
     peak[c] = pk;
     cross[c] = x;
+    // Clipping below full scale: an analogue stage that clipped, or a file normalised after
+    // clipping, leaves flat tops at the recording's own extremes instead of at full scale.
+    const lsb = encoding === "float" ? 0 : 1 / 2 ** (bits - 1);
+    for (const extreme of [mx, mn]) {
+      if (!(Math.abs(extreme) > 0) || Math.abs(extreme) >= clipLevel) continue;
+      const t = flatTops(ch, frames, extreme, lsb, clipRegions, mergeGap);
+      if (t.runs > 0) {
+        flatTopRuns += t.runs;
+        flatTopLevel = Math.max(flatTopLevel, Math.abs(extreme));
+        lastFlat = Math.max(lastFlat, t.last);
+      }
+    }
   }
   clipRegions.sort((p, q) => p[0] - q[0]);
   if (invalid > 0) {
@@ -343,7 +366,48 @@ export function decodeWav(bytes: Uint8Array): DecodedWav {
     }
     channelStats.push({ mean, rms: Math.sqrt(variance), peak: peak[c], correlationWithFirst: corr });
   }
-  return { layout, mono, channelStats, lastClippedFrame: lastClipped, clippedRuns, clipRegions };
+  return { layout, mono, channelStats, lastClippedFrame: lastClipped, clippedRuns, clipRegions, flatTopRuns, flatTopLevel, lastFlatTopFrame: lastFlat };
+}
+
+/** Flat tops need at least this many runs at one extreme (a decaying strike reaches its own peak in one or two cycles). */
+const FLAT_MIN_RUNS = 3;
+/** …and a pile-up there: at least 4 times as many samples within the tolerance of the extreme as
+ *  in the band from 2 to 5 tolerances below it. For a sine the two counts are about equal (its
+ *  samples' density near a peak A goes as 1/√(A² − x²)); clipping stacks samples on the flat top. */
+const FLAT_PILE_UP = 4;
+
+/**
+ * Runs of ≥ CLIP_RUN consecutive samples within a tolerance of `extreme` (a channel's own most
+ * positive or most negative sample): equal, or nearly equal (2 LSB, or 0.2 % of the level when
+ * noise was added after the clipping). Adds the runs to `regions` and returns their count and the
+ * last frame, or 0 runs when the samples do not pile up at the extreme as a clipped signal's do.
+ */
+function flatTops(ch: Float64Array, frames: number, extreme: number, lsb: number, regions: Array<[number, number]>, gap: number): { runs: number; last: number } {
+  const sign = extreme > 0 ? 1 : -1;
+  const level = Math.abs(extreme);
+  const tol = Math.max(2 * lsb, 2e-3 * level);
+  let top = 0;
+  let below = 0;
+  let runs = 0;
+  let run = 0;
+  const found: Array<[number, number]> = [];
+  for (let i = 0; i < frames; i++) {
+    const d = level - sign * ch[i];
+    if (d <= tol) {
+      top++;
+      run++;
+      if (run === CLIP_RUN) {
+        runs++;
+        found.push([i - CLIP_RUN + 1, i]);
+      } else if (run > CLIP_RUN) found[found.length - 1][1] = i;
+    } else {
+      run = 0;
+      if (d >= 2 * tol && d < 5 * tol) below++;
+    }
+  }
+  if (runs < FLAT_MIN_RUNS || top < FLAT_PILE_UP * Math.max(1, below)) return { runs: 0, last: -1 };
+  for (const [a, b] of found) for (let i = a; i <= b; i++) addClip(regions, i, gap);
+  return { runs, last: found[found.length - 1][1] };
 }
 
 /** Adds a clipped sample to the regions, merging with a region that ends within `gap` frames. */
