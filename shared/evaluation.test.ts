@@ -344,6 +344,27 @@ describe("evaluateUnit: decay and beat checks", () => {
     expect(evaluate(spec([fundamental({ minT60S: 5 })]), [strike(partials)]).requirements[0].t60).toBe("pass");
   });
 
+  it("adds the model error of an extrapolated T60 to its U, and says from how many dB it was extrapolated", () => {
+    // τ 0.75 ± 0.002 s (fit) and ± 0.03 s (model: the envelope check), 12 dB of decay seen:
+    // u(T60) = ln1000·√(0.002² + 0.03²) = 0.2077 s, U = 0.415 s; T60 5.18 s − U < 5 s → inconclusive.
+    const partials = [partial(440, { tauS: 0.75, tauUncertaintyS: 0.002, tauModelUncertaintyS: 0.03, observedDecayDb: 12 })];
+    const guarded = evaluate(spec([fundamental({ minT60S: 5 })], { decisionRule: "guarded" }), [strike(partials)]);
+    expect(guarded.requirements[0].t60UncertaintyS).toBeCloseTo(2 * ln1000 * Math.hypot(0.002, 0.03), 12);
+    expect(guarded.requirements[0].t60).toBe("inconclusive");
+    expect(guarded.requirements[0].t60ObservedDecayDb).toBe(12);
+    expect(guarded.requirements[0].note).toContain("(extrapolated from 12 dB of decay)");
+    // Without the model term the fit's bound alone (U = 0.028 s) would have passed it.
+    const fitOnly = evaluate(spec([fundamental({ minT60S: 5 })], { decisionRule: "guarded" }), [strike([partial(440, { tauS: 0.75, tauUncertaintyS: 0.002 })])]);
+    expect(fitOnly.requirements[0].t60).toBe("pass");
+  });
+
+  it("says why τ is unreliable: a decay that is not exponential asks for a free ring, not a longer recording", () => {
+    const r = evaluate(spec([fundamental({ minT60S: 5 })]), [strike([partial(440, { tauS: 2, tauUnreliable: true, nonExponential: true })])]);
+    expect(r.requirements[0].t60).toBe("inconclusive");
+    expect(r.requirements[0].note).toContain("its decay is not exponential");
+    expect(r.requirements[0].note).not.toContain("Record a longer strike");
+  });
+
   it("makes T60 and Q inconclusive when τ is unreliable, asking for a longer recording", () => {
     const s = spec([fundamental({ minT60S: 5, minQ: 1000 })]);
     const r = evaluate(s, [strike([partial(440, { tauS: 20, tauUnreliable: true })])]);

@@ -277,6 +277,14 @@ const signed = (x: number) => `${x >= 0 ? "+" : "−"}${Math.abs(x).toFixed(1)}`
 const s2 = (x: number) => `${x.toFixed(2)} s`;
 const plural = (n: number, one: string, many: string) => `${n} ${n === 1 ? one : many}`;
 
+/** Why τ was marked unreliable, in words, for the strikes' partials (most telling reason first). */
+function unreliableReason(partials: MeasuredPartial[]): string {
+  if (partials.some((q) => q.nonExponential)) return "its decay is not exponential (it does not fall along a straight line in dB), so no single T60 describes it. Let the unit ring freely, with nothing touching it, and strike it again.";
+  if (partials.some((q) => q.roomMasked)) return "the room's reverberation lasts about as long as the partial, so the two cannot be told apart. Record closer to the unit, away from bare walls.";
+  if (partials.some((q) => q.earlyStageOverlap)) return "an early, faster decay (the room's first reflections, or a hand damping the start) overlaps the whole measurable decay. Record closer to the unit and let it ring freely.";
+  return "the partial decayed less than 3 dB within the recording. Record a longer strike and let it ring out.";
+}
+
 function strikeList(missing: number[], total: number): string {
   const names = missing.map((i) => String(i + 1));
   const list = names.length <= 1 ? names.join("") : `${names.slice(0, -1).join(", ")} and ${names[names.length - 1]}`;
@@ -353,6 +361,7 @@ function emptyLine(p: SpecPartial): Line {
     pitch: "not_checked",
     t60S: null,
     t60UncertaintyS: null,
+    t60ObservedDecayDb: null,
     minT60S: p.minT60S,
     t60: "not_checked",
     q: null,
@@ -447,13 +456,19 @@ function evaluateLine(
 
   // Decay: T60 and Q, combined across strikes like the frequency (no temperature term).
   const t60s = obs.map((o) => o.partial.t60S);
-  const uT60 = obs.map((o) => Math.abs(o.partial.tauUncertaintyS) * LN_1000);
+  // The fit's bound and the model error the envelope check found (a T60 extrapolated from a decay
+  // that is not quite a straight line in dB), added in quadrature (GUM §5.1.2).
+  const uT60 = obs.map((o) => Math.hypot(o.partial.tauUncertaintyS, o.partial.tauModelUncertaintyS ?? 0) * LN_1000);
   const t60U = COVERAGE_FACTOR * combinedUncertainty(t60s, uT60);
   line.t60S = median(t60s);
   line.t60UncertaintyS = t60U;
+  // How much of the 60 dB the recordings saw: T60 is extrapolated from that.
+  const seen = obs.map((o) => o.partial.observedDecayDb).filter((d): d is number => typeof d === "number");
+  line.t60ObservedDecayDb = seen.length ? median(seen) : null;
+  const from = line.t60ObservedDecayDb !== null && line.t60ObservedDecayDb < 60 ? ` (extrapolated from ${line.t60ObservedDecayDb.toFixed(0)} dB of decay)` : "";
   const qs = obs.map((o) => o.partial.q);
   // Q = π·f·τ: relative uncertainties of f and τ add in quadrature (GUM §5.1.6).
-  const uQ = obs.map((o) => Math.abs(o.partial.q) * Math.hypot(o.partial.tauS > 0 ? o.partial.tauUncertaintyS / o.partial.tauS : 0, o.uHz / o.fHz));
+  const uQ = obs.map((o) => Math.abs(o.partial.q) * Math.hypot(o.partial.tauS > 0 ? Math.hypot(o.partial.tauUncertaintyS, o.partial.tauModelUncertaintyS ?? 0) / o.partial.tauS : 0, o.uHz / o.fHz));
   const qU = COVERAGE_FACTOR * combinedUncertainty(qs, uQ);
   line.q = median(qs);
   const unreliable = obs.filter((o) => o.partial.tauUnreliable).map((o) => o.strike);
@@ -461,14 +476,13 @@ function evaluateLine(
     if (unreliable.length > 0) {
       if (p.minT60S !== null) line.t60 = "inconclusive";
       if (p.minQ !== null) line.qResult = "inconclusive";
-      notes.push(
-        `${p.minT60S !== null ? "T60" : "Q"}${p.minT60S !== null && p.minQ !== null ? " and Q" : ""} could not be measured reliably in ${strikeList(unreliable, n)}: the partial decayed less than 3 dB within the recording. Record a longer strike and let it ring out.`,
-      );
+      const why = unreliableReason(obs.filter((o) => o.partial.tauUnreliable).map((o) => o.partial));
+      notes.push(`${p.minT60S !== null ? "T60" : "Q"}${p.minT60S !== null && p.minQ !== null ? " and Q" : ""} could not be measured reliably in ${strikeList(unreliable, n)}: ${why}`);
     } else {
       if (p.minT60S !== null) {
         line.t60 = decideLower(line.t60S, t60U, p.minT60S, spec.decisionRule);
-        if (line.t60 === "fail") notes.push(`T60 ${s2(line.t60S)} is below the minimum ${s2(p.minT60S)}.`);
-        if (line.t60 === "inconclusive") notes.push(`T60 ${s2(line.t60S)} ± ${s2(t60U)} (U, k = 2) overlaps the minimum ${s2(p.minT60S)}: measure more strikes.`);
+        if (line.t60 === "fail") notes.push(`T60 ${s2(line.t60S)}${from} is below the minimum ${s2(p.minT60S)}.`);
+        if (line.t60 === "inconclusive") notes.push(`T60 ${s2(line.t60S)} ± ${s2(t60U)} (U, k = 2)${from} overlaps the minimum ${s2(p.minT60S)}: measure more strikes, recorded longer so more of the decay is seen.`);
       }
       if (p.minQ !== null) {
         line.qResult = decideLower(line.q, qU, p.minQ, spec.decisionRule);

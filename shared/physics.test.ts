@@ -10,6 +10,7 @@ import {
   cents,
   correctToReferenceTemperature,
   frequencyFromCents,
+  t60ExtrapolatedFrom,
   midiNoteHz,
   qFromTau,
   t60FromTau,
@@ -91,5 +92,16 @@ describe("temperature coefficient (steel, from memory: about −1×10⁻⁴ per 
     const f30 = f20 * (1 + STEEL_FREQUENCY_TEMPERATURE_COEFFICIENT_PER_C * 10);
     expect(cents(f30, f20)).toBeCloseTo(-1.73, 2); // 10 °C warmer ≈ −1.7 cents
     expect(correctToReferenceTemperature(f30, 30, 20)).toBeCloseTo(f20, 9);
+  });
+});
+
+describe("T60 extrapolated from the decay a recording saw (T60 is a 60 dB decay, by definition)", () => {
+  it("names the dB seen when it is less than 60, and nothing otherwise", () => {
+    expect(t60ExtrapolatedFrom(6.4)).toBe("from 6 dB");
+    expect(t60ExtrapolatedFrom(59.6)).toBe("from 60 dB");
+    expect(t60ExtrapolatedFrom(60)).toBeNull();
+    expect(t60ExtrapolatedFrom(83)).toBeNull();
+    expect(t60ExtrapolatedFrom(undefined)).toBeNull();
+    expect(t60ExtrapolatedFrom(null)).toBeNull();
   });
 });

@@ -32,6 +32,16 @@ export function t60FromTau(tauS: number): number {
   return tauS * LN_1000;
 }
 
+/**
+ * T60 is a decay of 60 dB; a recording that saw less of it gives an extrapolated T60. The words
+ * every screen and the certificate put beside such a T60 ("from 28 dB"), or null when the whole
+ * 60 dB was seen or the amount is not known (results analysed before it was recorded).
+ */
+export function t60ExtrapolatedFrom(observedDecayDb: number | null | undefined): string | null {
+  if (typeof observedDecayDb !== "number" || !Number.isFinite(observedDecayDb) || observedDecayDb >= 60) return null;
+  return `from ${Math.max(0, Math.round(observedDecayDb))} dB`;
+}
+
 /** Amplitude time constant τ, s, from T60, s. */
 export function tauFromT60(t60S: number): number {
   return t60S / LN_1000;

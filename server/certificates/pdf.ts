@@ -10,6 +10,7 @@
 import { createRequire } from "node:module";
 import PDFDocument from "pdfkit";
 import QRCode from "qrcode";
+import { t60ExtrapolatedFrom } from "../../shared/physics.ts";
 import {
   certificateDataSchema,
   decisionRuleWords,
@@ -156,7 +157,8 @@ function cellsFor(r: CertificateResult): Record<string, string> {
     target: trimNumber(r.targetHz, 3),
     tol: `\u00B1${trimNumber(r.toleranceCents, 2)}`,
     dev: signed(r.deviationCents, 1),
-    t60: r.t60S.toFixed(2),
+    // T60 is 60 dB of decay; where the recordings saw less, the figure is an extrapolation and says so.
+    t60: [r.t60S.toFixed(2), t60ExtrapolatedFrom(r.t60ObservedDecayDb)].filter(Boolean).join("\n"),
     t60min: r.minT60S ? trimNumber(r.minT60S, 2) : "\u2014",
     q: Math.round(r.q).toString(),
     result: RESULT_WORDS[r.result],
@@ -479,8 +481,12 @@ function drawAuthorisation(doc: Doc, data: CertificateData): void {
   doc.x = MARGIN.left;
 }
 
+const T60_EXTRAPOLATED =
+  "T60 is the time for a partial to decay by 60 dB. Where a result reads \u201Cfrom N dB\u201D, the recordings saw N dB of that decay and T60 is extrapolated from it along the fitted exponential decay.";
+
 function drawFinePrint(doc: Doc, data: CertificateData): void {
   const notes = [FINE_PRINT.itemOnly, FINE_PRINT.fullOnly, FINE_PRINT.uncertainty];
+  if (data.results.some((r) => t60ExtrapolatedFrom(r.t60ObservedDecayDb))) notes.push(T60_EXTRAPOLATED);
   if (data.flags.measurementOnlyCaution) notes.push(FINE_PRINT.measurementOnly);
   notes.push(FINE_PRINT.signature);
   sectionHeading(doc, "Notes", 40);

@@ -54,7 +54,8 @@ function table(file: string, r: AnalysisResult): string {
             (p.beatHz === null ? "—" : fmt(p.beatHz, 4)).padStart(9),
           ].join(" ") +
           (p.twoStage ? `  two-stage: early τ ${fmt(p.twoStage.earlyTauS, 3)} s, late τ ${fmt(p.twoStage.lateTauS, 3)} s, knee ${fmt(p.twoStage.kneeS, 2)} s` : "") +
-          (p.tauUnreliable ? "  (τ unreliable: record longer)" : ""),
+          (typeof p.observedDecayDb === "number" ? `  decay seen ${fmt(p.observedDecayDb, 0)} dB` : "") +
+          (p.tauUnreliable ? `  (τ unreliable: ${p.nonExponential ? "decay not exponential" : p.roomMasked ? "masked by the room" : p.earlyStageOverlap ? "early decay overlaps" : "record longer"})` : ""),
       );
     }
   });

@@ -86,6 +86,7 @@ function ledgerRows(db: Db, batchId: string): LedgerRow[] {
       deviationCents: fund?.deviationCents ?? null,
       overtoneRatio: overtone?.measuredRatio ?? null,
       t60S: fund?.t60S ?? null,
+      t60ObservedDecayDb: fund?.t60ObservedDecayDb ?? null,
       q: fund?.q ?? null,
       disposition: disp ? { decision: disp.decision, reason: disp.reason, at: disp.at.toISOString(), by: disp.by } : null,
       open: !closed,
@@ -256,9 +257,9 @@ export function ledgerCsv(db: Db, workshopId: string, batchId: string): { filena
     const s = v === null || v === undefined ? "" : String(v);
     return /[",\r\n]/.test(s) ? `"${s.replaceAll('"', '""')}"` : s;
   };
-  const header = ["serial", "verdict", "fundamental_hz", "deviation_cents", "overtone_ratio", "t60_s", "q", "strikes", "disposition", "disposition_reason", "customer_name", "last_measured_at"];
+  const header = ["serial", "verdict", "fundamental_hz", "deviation_cents", "overtone_ratio", "t60_s", "t60_observed_decay_db", "q", "strikes", "disposition", "disposition_reason", "customer_name", "last_measured_at"];
   const lines = b.rows.map((r) =>
-    [r.serial, r.verdict, r.fundamentalHz?.toFixed(4), r.deviationCents?.toFixed(2), r.overtoneRatio?.toFixed(4), r.t60S?.toFixed(3), r.q?.toFixed(0), r.strikes, r.disposition?.decision, r.disposition?.reason, r.customerName, r.lastMeasuredAt].map(q).join(","),
+    [r.serial, r.verdict, r.fundamentalHz?.toFixed(4), r.deviationCents?.toFixed(2), r.overtoneRatio?.toFixed(4), r.t60S?.toFixed(3), r.t60ObservedDecayDb?.toFixed(0), r.q?.toFixed(0), r.strikes, r.disposition?.decision, r.disposition?.reason, r.customerName, r.lastMeasuredAt].map(q).join(","),
   );
   return { filename: `${b.code}-ledger.csv`, csv: [header.join(","), ...lines].join("\r\n") + "\r\n" };
 }

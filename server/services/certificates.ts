@@ -81,6 +81,7 @@ function buildData(deps: CertificateDeps, actor: Actor & { name: string; role: R
       toleranceCents: r.toleranceCents,
       deviationCents: r.deviationCents!,
       t60S: r.t60S!,
+      ...(typeof r.t60ObservedDecayDb === "number" ? { t60ObservedDecayDb: Math.round(r.t60ObservedDecayDb) } : {}),
       minT60S: r.minT60S,
       q: r.q!,
       result: (r.result === "pass" || r.result === "fail" ? r.result : r.result === "not_found" ? "fail" : "inconclusive") as "pass" | "fail" | "inconclusive",

@@ -71,6 +71,8 @@ export type LedgerRow = {
   deviationCents: number | null;
   overtoneRatio: number | null;
   t60S: number | null;
+  /** Decay the recordings saw, dB: the fundamental's T60 is extrapolated from it. */
+  t60ObservedDecayDb: number | null;
   q: number | null;
   disposition: { decision: DispositionDecision; reason: string; at: string; by: string } | null;
   /** True when the unit still needs measuring, a verdict or a disposition before release. */

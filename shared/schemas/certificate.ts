@@ -65,6 +65,8 @@ export const certificateResultSchema = z.object({
   deviationCents: z.number(),
   /** Decay time to −60 dB, s. */
   t60S: z.number().positive(),
+  /** Decay the recordings saw, dB: T60 is extrapolated from it to 60 dB. Absent on older certificates. */
+  t60ObservedDecayDb: z.number().nonnegative().optional(),
   /** Minimum T60 the spec requires for this partial, s; null when it sets none. */
   minT60S: z.number().positive().nullable().optional(),
   /** Quality factor Q = π·f·τ (dimensionless). */

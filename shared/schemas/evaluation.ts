@@ -37,6 +37,8 @@ export type RequirementResult = {
   pitch: CheckResult;
   t60S: number | null;
   t60UncertaintyS: number | null;
+  /** Median decay the strikes' recordings saw, dB: T60 (60 dB) is extrapolated from it. Absent on evaluations made before it was recorded. */
+  t60ObservedDecayDb?: number | null;
   minT60S: number | null;
   t60: CheckResult;
   q: number | null;

@@ -204,6 +204,18 @@ describe("laboratory forks also get the caution", () => {
   });
 });
 
+describe("a T60 extrapolated from less than 60 dB of observed decay says so", () => {
+  it("prints \u201Cfrom 18 dB\u201D under the T60 and the note explaining it; a result without the figure stays as it was", async () => {
+    const data = buildCertificateData({ results: [buildResult({ t60ObservedDecayDb: 18 })] });
+    const text = squash((await parsePdf(await renderCertificatePdf(data))).text);
+    expect(text).toContain("38.40 from 18 dB");
+    expect(text).toContain("T60 is extrapolated from it");
+    const plain = squash((await parsePdf(await renderCertificatePdf(buildCertificateData()))).text);
+    expect(plain).not.toContain("from 18 dB");
+    expect(plain).not.toContain("T60 is extrapolated");
+  });
+});
+
 describe("refuses data with a missing or empty item", () => {
   const cases: [string, Partial<CertificateData>, RegExp][] = [
     ["empty customer name", { customer: { name: "  " } }, /customer\.name: The customer's name must not be empty/],

@@ -8,6 +8,7 @@ import { useEffect, useMemo, useState } from "react";
 import { flushSync } from "react-dom";
 import { Link } from "react-router";
 import type { LedgerRow } from "@shared/schemas/batch";
+import { t60ExtrapolatedFrom } from "@shared/physics";
 import { EmptyState } from "@/components/ui/panel";
 import { DispositionBadge, VerdictBadge } from "@/components/ui/status-badges";
 import { formatCents, formatNumber } from "@/lib/format";
@@ -65,7 +66,19 @@ export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
         },
       }),
       column.accessor("overtoneRatio", { header: "Overtone ratio", cell: (info) => formatNumber(info.getValue(), 3), meta: { numeric: true } }),
-      column.accessor("t60S", { header: "T60 (s)", cell: (info) => formatNumber(info.getValue(), 1), meta: { numeric: true } }),
+      column.accessor("t60S", {
+        header: "T60 (s)",
+        meta: { numeric: true },
+        cell: (info) => {
+          const from = info.getValue() != null ? t60ExtrapolatedFrom(info.row.original.t60ObservedDecayDb) : null;
+          return (
+            <>
+              {formatNumber(info.getValue(), 1)}
+              {from ? <span className="block text-caption text-ink-faint">{from}</span> : null}
+            </>
+          );
+        },
+      }),
       column.accessor("q", { header: "Q", cell: (info) => formatNumber(info.getValue(), 0), meta: { numeric: true } }),
       column.accessor((row) => row.disposition?.decision ?? "", {
         id: "disposition",

@@ -6,7 +6,7 @@
 import { useMemo, useState } from "react";
 import uPlot from "uplot";
 import type { StrikeDetail, UnitDetail } from "@shared/schemas/strike";
-import { cents } from "@shared/physics";
+import { cents, t60ExtrapolatedFrom } from "@shared/physics";
 import { supportLabels } from "@shared/schemas/spec";
 import { Alert } from "@/components/ui/alert";
 import { EmptyState } from "@/components/ui/panel";
@@ -230,7 +230,7 @@ function CompareView({ strikes, fundamentalLabel }: { strikes: ComparedStrike[];
                         {p ? (
                           <>
                             {p.frequencyHz.toFixed(2)} Hz
-                            <span className="block text-ink-faint">T60 {p.t60S.toFixed(2)} s · Q {Math.round(p.q).toLocaleString("en-GB")}</span>
+                            <span className="block text-ink-faint">T60 {p.t60S.toFixed(2)} s{t60ExtrapolatedFrom(p.observedDecayDb) ? ` (${t60ExtrapolatedFrom(p.observedDecayDb)})` : ""} · Q {Math.round(p.q).toLocaleString("en-GB")}</span>
                             {ref ? (
                               <span className="block text-ink-soft" data-testid="compare-delta">
                                 {signedCents(cents(p.frequencyHz, ref.frequencyHz))} cents, T60 ×{(p.t60S / ref.t60S).toFixed(2)} against the first

@@ -41,6 +41,16 @@ export function stageAnchor(envelope: { timeS: number[]; levelDb: number[] }, fr
   return n ? sum / n : null;
 }
 
+/** The caption's sentence on what the recording saw of the decay and why τ may not hold. */
+function decayNote(p: Partial): string {
+  const seen = typeof p.observedDecayDb === "number" ? ` The recording saw ${fixed(p.observedDecayDb, 0)} dB of the decay; T60 (60 dB) is extrapolated from it.` : "";
+  if (!p.tauUnreliable) return seen;
+  if (p.nonExponential) return `${seen} τ is unreliable here: the envelope does not fall along a straight line in dB (it parts from the fit by ${fixed(p.envelopeDeviationDb ?? 0, 1)} dB RMS), so no single τ describes this decay.`;
+  if (p.roomMasked) return `${seen} τ is unreliable here: the room's reverberation lasts about as long as this partial.`;
+  if (p.earlyStageOverlap) return `${seen} τ is unreliable here: a faster early decay overlaps the whole measurable decay.`;
+  return `${seen} τ is unreliable here: the partial fell by less than 3 dB in the recording.`;
+}
+
 export function DecayChart({ partial, envelope, label, height = 220 }: { partial: Partial; envelope: StrikePlot["envelopes"][number]; label: string; height?: number }) {
   const t0 = partial.amplitudeAtS ?? partial.fitStartS;
   const two = partial.twoStage ?? null;
@@ -141,7 +151,7 @@ export function DecayChart({ partial, envelope, label, height = 220 }: { partial
         {partial.beatHz
           ? ` Beats at ${fixed(partial.beatHz, 2)} Hz (the envelope swells every ${fixed(1 / partial.beatHz, 2)} s): two close modes ring together${partial.modes?.length === 2 ? `, at ${fixed(partial.modes[0].frequencyHz, 2)} and ${fixed(partial.modes[1].frequencyHz, 2)} Hz` : ""}.`
           : ""}
-        {partial.tauUnreliable ? " τ is unreliable here: the partial fell by less than 3 dB in the recording." : ""}
+        {decayNote(partial)}
       </figcaption>
     </figure>
   );

@@ -1,4 +1,5 @@
-import { fixed, signed, splitUncertainty } from "../lib/format";
+import { t60ExtrapolatedFrom } from "@shared/physics";
+import { fixed, signed, splitUncertainty, unreliableReason } from "../lib/format";
 import { ratioReference, type PartialRow } from "../lib/partial-rows";
 
 const num = "py-2 pl-3 text-right font-mono text-caption whitespace-nowrap align-top";
@@ -27,7 +28,7 @@ export function PartialsTable({ rows }: { rows: PartialRow[] }) {
             <th scope="col" className="py-2 pl-3 text-right">τ (s)<span className="block font-normal">± u</span></th>
             <th scope="col" className="py-2 pl-3 text-right">T60 (s)</th>
             <th scope="col" className="py-2 pl-3 text-right">Q</th>
-            <th scope="col" className="py-2 pl-3 text-right">Fit R²</th>
+            <th scope="col" className="py-2 pl-3 text-right">Fit R²<span className="block font-normal">vs envelope</span></th>
             <th scope="col" className="py-2 pl-3 text-right">Beat (Hz)</th>
           </tr>
         </thead>
@@ -40,7 +41,7 @@ export function PartialsTable({ rows }: { rows: PartialRow[] }) {
                 <th scope="row" className="sticky left-0 bg-surface py-2 pr-2 align-top font-medium">
                   <span className="tl-partial-label">{row.label}</span>
                   {row.isFundamental ? <span className="block text-caption font-normal text-ink-faint">fundamental, f₀</span> : null}
-                  {p.tauUnreliable ? <span className="block text-caption font-normal text-ochre-600">τ unreliable</span> : null}
+                  {p.tauUnreliable ? <span className="block text-caption font-normal text-ochre-600">τ unreliable: {unreliableReason(p)}</span> : null}
                 </th>
                 <td className={num}>
                   <ValueU value={p.frequencyHz} u={p.frequencyUncertaintyHz} />
@@ -63,7 +64,10 @@ export function PartialsTable({ rows }: { rows: PartialRow[] }) {
                 <td className={num}>
                   <ValueU value={p.tauS} u={p.tauUncertaintyS} />
                 </td>
-                <td className={num}>{fixed(p.t60S, 2)}</td>
+                <td className={num}>
+                  {fixed(p.t60S, 2)}
+                  {t60ExtrapolatedFrom(p.observedDecayDb) ? <span className="block text-ink-faint">{t60ExtrapolatedFrom(p.observedDecayDb)}</span> : null}
+                </td>
                 <td className={num}>{Math.round(p.q).toLocaleString("en-GB")}</td>
                 <td className={num}>{fixed(p.fitR2, 3)}</td>
                 <td className={num}>{p.beatHz === null ? "–" : fixed(p.beatHz, 2)}</td>
@@ -73,7 +77,7 @@ export function PartialsTable({ rows }: { rows: PartialRow[] }) {
         </tbody>
       </table>
       <p className="mt-2 text-caption text-ink-faint">
-        u: standard uncertainty (k = 1) from the fit. T60 = τ·ln 1000; Q = π·f·τ.
+        u: standard uncertainty (k = 1) from the fit. T60 = τ·ln 1000; Q = π·f·τ. “from 28 dB”: the recording saw 28 dB of the decay, and T60 (60 dB) is extrapolated from it. Fit R²: the fitted decay against the partial’s own envelope.
         {anyTarget ? " Deviation: this strike alone, before temperature correction; the unit's verdict combines its strikes." : " No spec targets matched this strike, so only ratios are shown."}
         {reference === "lowest" ? " No partial matched the spec's fundamental, so ratios are to the lowest partial." : ""}
         {anyBeat ? " Beat: the difference of a doublet's two close modes." : ""}

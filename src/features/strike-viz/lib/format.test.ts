@@ -3,7 +3,7 @@
  * (GUM, JCGM 100:2008 §7.2.6: "it is usually sufficient to quote … at most two significant digits").
  */
 import { describe, expect, it } from "vitest";
-import { scientific, signed, splitUncertainty, withUncertainty } from "./format";
+import { scientific, signed, splitUncertainty, withUncertainty, unreliableReason } from "./format";
 
 describe("uncertainty formatting", () => {
   it("rounds the value to the uncertainty's second significant digit", () => {
@@ -22,5 +22,16 @@ describe("uncertainty formatting", () => {
   it("signs with a true minus", () => {
     expect(signed(-33.0, 1)).toBe("−33.0");
     expect(signed(1.2, 1)).toBe("+1.2");
+  });
+});
+
+describe("unreliableReason", () => {
+  const base = { tauUnreliable: true };
+  it("names the most telling reason first, and nothing for a reliable τ", () => {
+    expect(unreliableReason({ tauUnreliable: false, nonExponential: true })).toBeNull();
+    expect(unreliableReason({ ...base, nonExponential: true, roomMasked: true })).toBe("decay not exponential");
+    expect(unreliableReason({ ...base, roomMasked: true })).toBe("masked by the room");
+    expect(unreliableReason({ ...base, earlyStageOverlap: true })).toBe("early decay overlaps");
+    expect(unreliableReason(base)).toBe("record longer");
   });
 });

@@ -43,3 +43,12 @@ export function signed(value: number, decimals: number): string {
   // A typographic minus reads better in tables than a hyphen.
   return value > 0 ? `+${s}` : s.replace("-", "−");
 }
+
+/** Why τ, T60 and Q of a partial are not to be trusted, in a few words (the strike's warnings say more), or null. */
+export function unreliableReason(p: { tauUnreliable: boolean; nonExponential?: boolean; roomMasked?: boolean; earlyStageOverlap?: boolean }): string | null {
+  if (!p.tauUnreliable) return null;
+  if (p.nonExponential) return "decay not exponential";
+  if (p.roomMasked) return "masked by the room";
+  if (p.earlyStageOverlap) return "early decay overlaps";
+  return "record longer";
+}

@@ -9,6 +9,7 @@ import { Link, useParams } from "react-router";
 import type { StrikeDetail } from "@shared/schemas/strike";
 import { supportLabels } from "@shared/schemas/spec";
 import { strikeStateLabels } from "@shared/schemas/strike";
+import { t60ExtrapolatedFrom } from "@shared/physics";
 import { Alert } from "@/components/ui/alert";
 import { Badge, EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { Spinner } from "@/components/ui/spinner";
@@ -175,7 +176,7 @@ function StrikeView({ workshopId, strike }: { workshopId: string; strike: Strike
                       return (
                         <section key={row.index} aria-label={`Decay of ${row.label}`} className="tl-decay-item min-w-0">
                           <h3 className="mb-1 text-body font-semibold">
-                            {row.label} <span className="font-normal text-ink-soft">· {formatHz(row.partial.frequencyHz)} · T60 {fixed(row.partial.t60S, 2)} s</span>
+                            {row.label} <span className="font-normal text-ink-soft">· {formatHz(row.partial.frequencyHz)} · T60 {fixed(row.partial.t60S, 2)} s{t60ExtrapolatedFrom(row.partial.observedDecayDb) ? ` (extrapolated ${t60ExtrapolatedFrom(row.partial.observedDecayDb)})` : ""}</span>
                           </h3>
                           {envelope ? <DecayChart partial={row.partial} envelope={envelope} label={row.label} /> : <p className="text-ink-soft">No envelope stored for this partial.</p>}
                         </section>

@@ -2,6 +2,7 @@
 import clsx from "clsx";
 import { decisionRuleLabels } from "@shared/schemas/spec";
 import type { CheckResult, EvaluationView as Evaluation, RequirementResult } from "@shared/schemas/evaluation";
+import { t60ExtrapolatedFrom } from "@shared/physics";
 import { Badge, EmptyState } from "@/components/ui/panel";
 import { VerdictBadge } from "@/components/ui/status-badges";
 import { formatCents, formatDateTime, formatNumber, formatUncertainty } from "@/lib/format";
@@ -94,6 +95,7 @@ function RequirementRow({ r, repeatsReason }: { r: RequirementResult; repeatsRea
         </td>
         <td className={clsx("whitespace-nowrap py-2 pr-3 text-right tabular-nums", failed(r.t60))}>
           {r.t60S != null ? `${formatNumber(r.t60S, 1)} s` : "—"}
+          {r.t60S != null && t60ExtrapolatedFrom(r.t60ObservedDecayDb) ? <span className="block font-normal text-ink-faint">extrapolated {t60ExtrapolatedFrom(r.t60ObservedDecayDb)}</span> : null}
           {r.minT60S != null ? <span className="block font-normal text-ink-faint">min {r.minT60S} s</span> : null}
         </td>
         <td className={clsx("whitespace-nowrap py-2 pr-3 text-right tabular-nums", failed(r.qResult))}>
