@@ -193,7 +193,9 @@ export function refinePartial(r: PartialRequest): RefinedPartial | "unresolved" 
   // (white noise of variance σ²ₓ per sample gives var(y) = L·σ²ₓ·mean(taper²)/K in the band),
   // or the one-mode residual when that is lower (the early floor may hold the strike's own
   // reverberation).
-  const bandNoise = Math.min((r.segLen * r.noisePower * band.taperPower) / band.K, one.sigma2);
+  // The band's own tail, where the segment runs on past the partial's decay, is a third reading
+  // (the early floor is raised in a reverberant room): the least of the three is taken.
+  const bandNoise = Math.min((r.segLen * r.noisePower * band.taperPower) / band.K, one.sigma2, tailPower(band.y, mEndMax));
   const fallDb = checkEnvelope(y, band.dt, one.modes, bandNoise).observedDecayDb;
   let chosen: DampedFit = one;
   let pair: PairClass = { kind: "single", main: 0, companion: null };
@@ -217,7 +219,7 @@ export function refinePartial(r: PartialRequest): RefinedPartial | "unresolved" 
   // A fast companion (an early stage, or the room's early energy) is only approximately one more
   // exponential. Where the window allows, the reported (slow) mode is fitted again alone, from
   // where the fast one has fallen 40 dB below it: from there on the band is one damped exponential.
-  let late: { fit: DampedFit; C: Float64Array; startS: number; endS: number } | null = null;
+  let late: { fit: DampedFit; C: Float64Array; startS: number; endS: number; lastIndex: number } | null = null;
   if (pair.companion === "fast" && chosen.modes.length === 2) {
     const slow = chosen.modes[pair.main];
     const fast = chosen.modes[1 - pair.main];
@@ -232,7 +234,7 @@ export function refinePartial(r: PartialRequest): RefinedPartial | "unresolved" 
       const yl = band.y.subarray(2 * (mStart + mLate), 2 * (mStart + mLast + 1));
       const lf = refine(yl, band.dt, [{ alpha: slow.alpha, omega: slow.omega }]);
       const lc = lf ? cov(lf) : null;
-      if (lf && lc && lf.modes[0].alpha > 0) late = { fit: lf, C: lc, startS: (r.segStart + (mStart + mLate) * step) / r.sampleRate, endS: (r.segStart + (mStart + mLast) * step) / r.sampleRate };
+      if (lf && lc && lf.modes[0].alpha > 0) late = { fit: lf, C: lc, startS: (r.segStart + (mStart + mLate) * step) / r.sampleRate, endS: (r.segStart + (mStart + mLast) * step) / r.sampleRate, lastIndex: mStart + mLast };
     }
   }
   // An early stage that overlaps the whole measurable decay leaves no stretch where the unit's own
@@ -410,7 +412,8 @@ export function refinePartial(r: PartialRequest): RefinedPartial | "unresolved" 
     nonExponential,
     ...(earlyStageOverlap ? { earlyStageOverlap } : {}),
     envelopeDeviationDb: check.deviationDb,
-    observedDecayDb: check.observedDecayDb,
+    // With a later window for the slow mode, the decay seen runs on to that window's end.
+    observedDecayDb: late ? Math.max(check.observedDecayDb, meanLevelDb(y, 0, Math.max(1, Math.round(n / 10))) - meanLevelDb(band.y, late.lastIndex - Math.max(1, Math.round((late.lastIndex - mStart) / 10)), late.lastIndex)) : check.observedDecayDb,
     tauModelUncertaintyS,
     // SNR at the fit start within this partial's analysis band: the partial's amplitude over the
     // band's noise RMS, the same two levels the decay plot shows (envelope and noise floor).
@@ -420,7 +423,7 @@ export function refinePartial(r: PartialRequest): RefinedPartial | "unresolved" 
     partial,
     alpha: 1 / tauS,
     alphaUncertainty: Number.isFinite(tauUncertaintyS) ? tauUncertaintyS / (tauS * tauS) : Infinity,
-    envelope: envelopeSeries(band, nSeg, r.segStart, r.sampleRate, sigma),
+    envelope: envelopeSeries(band, nSeg, r.segStart, r.sampleRate, Math.sqrt(bandNoise)),
     noiseLike: check.erratic,
     steadyLine,
     windowS,
@@ -531,6 +534,22 @@ function validTwo(f: DampedFit, C: Float64Array | null, band: Band, n: number, y
   // Two huge modes that cancel each other are an ill-conditioned fit, not two modes. Real doublets
   // can start nearly in anti-phase (the sum then grows as the beat turns), so allow 20 dB.
   return modeEnergy < 100 * dataEnergy;
+}
+
+/** Mean power of band samples [i0, i1] (interleaved complex), dB. */
+function meanLevelDb(y: Float64Array, i0: number, i1: number): number {
+  let e = 0;
+  const a = Math.max(0, i0);
+  for (let i = a; i <= i1; i++) e += y[2 * i] ** 2 + y[2 * i + 1] ** 2;
+  return 10 * Math.log10(e / Math.max(1, i1 - a + 1) + 1e-300);
+}
+
+/** Mean power of the last fifth of the usable band samples (up to index `last`), per sample. */
+function tailPower(y: Float64Array, last: number): number {
+  const from = Math.floor(0.8 * last);
+  let e = 0;
+  for (let i = from; i <= last; i++) e += y[2 * i] ** 2 + y[2 * i + 1] ** 2;
+  return last - from + 1 >= 8 ? e / (last - from + 1) : Infinity;
 }
 
 /** Envelope (dB re full scale, peak amplitude) over the whole segment, at most 600 points. */

@@ -12,7 +12,8 @@ import { beforeAll, describe, expect, it } from "vitest";
 import type { Page } from "playwright-core";
 import wavefile from "wavefile";
 import type { StrikeDetail, UnitDetail } from "../../shared/schemas/strike.ts";
-import { mkdtempSync, rmSync } from "node:fs";
+import { execFileSync } from "node:child_process";
+import { mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { chromium } from "playwright-core";
@@ -185,6 +186,37 @@ describe("the strike page", () => {
     await page.locator('[data-testid="waveform"]').waitFor();
     expect(await page.locator(".tl-spectrum").count()).toBe(0);
     await screenshot(page, "e2e-strike-failed");
+  });
+
+  it("a tone under a linear fade (written by sox) shows the not-exponential warning, the mark and the extrapolated T60", async () => {
+    const { page } = e2e.browser;
+    const open = await batchByCode(page, "BTW-2612");
+    const dir = mkdtempSync(path.join(tmpdir(), "tinelog-fade-"));
+    try {
+      const file = path.join(dir, "fade.wav");
+      execFileSync("sox", ["-n", "-r", "48000", "-b", "24", file, "synth", "4", "sine", "440", "fade", "t", "0", "4", "3.9"]);
+      const bytes = Array.from(readFileSync(file));
+      const accepted = await page.evaluate(
+        async ({ unitId, bytes }) => {
+          const form = new FormData();
+          form.append("audio", new File([new Uint8Array(bytes)], "faded-take.wav", { type: "audio/wav" }));
+          const r = await fetch(`/api/units/${unitId}/strikes`, { method: "POST", body: form, credentials: "same-origin" });
+          return { status: r.status, body: await r.json() };
+        },
+        { unitId: open.rows[open.rows.length - 2].id, bytes },
+      );
+      expect(accepted.status).toBe(202);
+      await page.goto(`${e2e.server.baseUrl}/strikes/${accepted.body.id}`);
+      await page.getByText("A decay is not exponential").waitFor({ timeout: 60_000 });
+      await page.getByText(/The decay of the partial at 440\.0 Hz is not exponential/).waitFor();
+      const table = page.getByRole("table").filter({ hasText: "Frequency (Hz)" });
+      await table.getByText("τ unreliable: decay not exponential").waitFor();
+      await expect(table.getByText(/^from \d+ dB$/).count()).resolves.toBe(1);
+      await page.getByText(/T60 [\d.]+ s \(extrapolated from \d+ dB\)/).waitFor();
+      await screenshot(page, "e2e-strike-linear-fade");
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
 
   it("records a strike from a microphone, uploads it through the unit page and shows it on its strike page", async () => {

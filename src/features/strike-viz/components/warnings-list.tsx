@@ -9,19 +9,19 @@ const advice: Record<AnalysisWarning["code"], { title: string; todo: string }> =
   },
   flat_topped: {
     title: "The recording clipped below full scale",
-    todo: "Its waveform has flat tops at its own loudest level: the microphone preamp or the recorder's input clipped, or the file was clipped and then turned down. Lower the input gain or the microphone's sensitivity, switch off any limiter or automatic gain control, and record again; normalising a clipped file does not undo the clipping.",
+    todo: "Lower the input gain until the loudest strike peaks around −12 dBFS, switch off any limiter or automatic gain control, and record again. Turning a clipped file down afterwards does not undo the clipping.",
   },
   not_exponential: {
     title: "A decay is not exponential",
-    todo: "The partial's level does not fall along a straight line in dB, so no single τ, T60 or Q describes it and they are marked unreliable. Let the unit ring freely on its usual support, with nothing touching it (no hand, no loose part, no fade applied to the file), and strike it again.",
+    todo: "Check that nothing touches the unit while it rings (fingers, a loose clamp, a cable), strike it on its usual support, and upload the recording as it was made, without a fade-out or other editing.",
   },
   early_decay_overlap: {
     title: "An early decay hides the unit's own",
-    todo: "A faster early stage — the room's first reflections, or a hand or support damping the start — lasts through the whole measurable decay. Record closer to the unit, away from walls and hard benches, and let it ring freely.",
+    todo: "Record with the microphone a hand's width from the unit, away from walls and hard benches, and let the unit ring freely.",
   },
   reverberant_room: {
     title: "The room rings as long as some partials",
-    todo: "In a hard-walled room the reverberation can outlast the faster partials, and then their decay is the room's. Move the microphone to a hand's width from the unit, record away from bare walls, or put blankets or foam panels around the recording place.",
+    todo: "Bring the microphone to a hand's width from the unit, or soften the room around the bench with blankets or foam panels, and strike again.",
   },
   low_level: {
     title: "The level is very low",
