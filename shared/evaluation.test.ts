@@ -362,6 +362,7 @@ describe("evaluateUnit: decay and beat checks", () => {
     const r = evaluate(spec([fundamental({ minT60S: 5 })]), [strike([partial(440, { tauS: 2, tauUnreliable: true, nonExponential: true })])]);
     expect(r.requirements[0].t60).toBe("inconclusive");
     expect(r.requirements[0].note).toContain("its decay is not exponential");
+    expect(r.requirements[0].t60Unreliable).toBe(true);
     expect(r.requirements[0].note).not.toContain("Record a longer strike");
   });
 

@@ -362,6 +362,7 @@ function emptyLine(p: SpecPartial): Line {
     t60S: null,
     t60UncertaintyS: null,
     t60ObservedDecayDb: null,
+    t60Unreliable: false,
     minT60S: p.minT60S,
     t60: "not_checked",
     q: null,
@@ -472,6 +473,7 @@ function evaluateLine(
   const qU = COVERAGE_FACTOR * combinedUncertainty(qs, uQ);
   line.q = median(qs);
   const unreliable = obs.filter((o) => o.partial.tauUnreliable).map((o) => o.strike);
+  line.t60Unreliable = unreliable.length > 0;
   if (p.minT60S !== null || p.minQ !== null) {
     if (unreliable.length > 0) {
       if (p.minT60S !== null) line.t60 = "inconclusive";

@@ -87,6 +87,7 @@ function ledgerRows(db: Db, batchId: string): LedgerRow[] {
       overtoneRatio: overtone?.measuredRatio ?? null,
       t60S: fund?.t60S ?? null,
       t60ObservedDecayDb: fund?.t60ObservedDecayDb ?? null,
+      t60Unreliable: fund?.t60Unreliable ?? false,
       q: fund?.q ?? null,
       disposition: disp ? { decision: disp.decision, reason: disp.reason, at: disp.at.toISOString(), by: disp.by } : null,
       open: !closed,
@@ -133,7 +134,8 @@ export function getBatch(db: Db, workshopId: string, batchId: string): BatchDeta
 
 function statistics(rows: LedgerRow[]): BatchStatistics {
   const dev = rows.map((r) => r.deviationCents).filter((d): d is number => d !== null);
-  const t60 = rows.map((r) => r.t60S).filter((d): d is number => d !== null).sort((a, b) => a - b);
+  // A T60 marked unreliable is no figure of the process: left out of the batch's median.
+  const t60 = rows.filter((r) => !r.t60Unreliable).map((r) => r.t60S).filter((d): d is number => d !== null).sort((a, b) => a - b);
   const mean = dev.length ? dev.reduce((a, b) => a + b, 0) / dev.length : null;
   const sd = mean !== null && dev.length > 1 ? Math.sqrt(dev.reduce((a, d) => a + (d - mean) ** 2, 0) / (dev.length - 1)) : null;
   const mid = t60.length >> 1;

@@ -73,6 +73,8 @@ export type LedgerRow = {
   t60S: number | null;
   /** Decay the recordings saw, dB: the fundamental's T60 is extrapolated from it. */
   t60ObservedDecayDb: number | null;
+  /** The fundamental's T60 was marked unreliable in a strike (not exponential, too short, masked by the room). */
+  t60Unreliable: boolean;
   q: number | null;
   disposition: { decision: DispositionDecision; reason: string; at: string; by: string } | null;
   /** True when the unit still needs measuring, a verdict or a disposition before release. */

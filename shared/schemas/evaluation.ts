@@ -39,6 +39,8 @@ export type RequirementResult = {
   t60UncertaintyS: number | null;
   /** Median decay the strikes' recordings saw, dB: T60 (60 dB) is extrapolated from it. Absent on evaluations made before it was recorded. */
   t60ObservedDecayDb?: number | null;
+  /** True when τ (so T60 and Q) was marked unreliable in at least one of the strikes combined. */
+  t60Unreliable?: boolean;
   minT60S: number | null;
   t60: CheckResult;
   q: number | null;

@@ -22,7 +22,7 @@ const fmt = (v: number | null) => (v === null || !Number.isFinite(v) ? "—" : v
 export function CapabilitySummary({ batch, deviations }: { batch: BatchDetail; deviations: number[] }) {
   const tol = batch.fundamentalToleranceCents;
   const pitch: Outcome = tol === null ? { reason: "The spec version gives no tolerance for the fundamental." } : attempt(() => toleranceCapability(deviations, tol));
-  const t60s = batch.rows.map((r) => r.t60S).filter((t): t is number => t !== null && Number.isFinite(t) && t > 0);
+  const t60s = batch.rows.filter((r) => !r.t60Unreliable).map((r) => r.t60S).filter((t): t is number => t !== null && Number.isFinite(t) && t > 0);
   const decay: Outcome =
     batch.minT60S === null
       ? { reason: "The spec version sets no minimum T60." }

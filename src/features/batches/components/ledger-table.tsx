@@ -74,7 +74,7 @@ export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
           return (
             <>
               {formatNumber(info.getValue(), 1)}
-              {from ? <span className="block text-caption text-ink-faint">{from}</span> : null}
+              {info.getValue() != null && info.row.original.t60Unreliable ? <span className="block text-caption text-ochre-600">unreliable</span> : from ? <span className="block text-caption text-ink-faint">{from}</span> : null}
             </>
           );
         },

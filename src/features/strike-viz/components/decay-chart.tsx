@@ -43,7 +43,12 @@ export function stageAnchor(envelope: { timeS: number[]; levelDb: number[] }, fr
 
 /** The caption's sentence on what the recording saw of the decay and why τ may not hold. */
 function decayNote(p: Partial): string {
-  const seen = typeof p.observedDecayDb === "number" ? ` The recording saw ${fixed(p.observedDecayDb, 0)} dB of the decay; T60 (60 dB) is extrapolated from it.` : "";
+  const seen =
+    typeof p.observedDecayDb !== "number"
+      ? ""
+      : p.observedDecayDb < 60
+        ? ` The recording saw ${fixed(p.observedDecayDb, 0)} dB of the decay; T60 (60 dB) is extrapolated from it.`
+        : ` The recording saw ${fixed(p.observedDecayDb, 0)} dB of the decay, all of T60's 60 dB.`;
   if (!p.tauUnreliable) return seen;
   if (p.nonExponential) return `${seen} τ is unreliable here: the envelope does not fall along a straight line in dB (it parts from the fit by ${fixed(p.envelopeDeviationDb ?? 0, 1)} dB RMS), so no single τ describes this decay.`;
   if (p.roomMasked) return `${seen} τ is unreliable here: the room's reverberation lasts about as long as this partial.`;
