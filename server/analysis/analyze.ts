@@ -12,7 +12,7 @@ import { findOnsets } from "./segment";
 import { findPeaks, quickSelect, windowedSpectrum, type SpectralPeak, type Spectrum } from "./spectrum";
 import { decodeWav } from "./wav";
 
-export const ANALYSER_VERSION = "1.0.0";
+export const ANALYSER_VERSION = "1.1.0";
 
 /** Where the time went, ms (filled when passed to analyzeWavTimed). */
 export interface AnalysisTimings {
