@@ -63,9 +63,8 @@ export function projectAmplitudes(y: Float64Array, dt: number, poles: Pole[]): F
   return solveComplex(G, b, p);
 }
 
-function cost(y: Float64Array, dt: number, th: Float64Array, p: number, alphaMin: number): number {
-  const n = y.length / 2;
-  for (let k = 0; k < p; k++) if (th[4 * k + 2] < alphaMin || !Number.isFinite(th[4 * k + 2])) return Infinity;
+/** The model Σₖ aₖ·zₖ^m, m = 0…n−1, zₖ = e^((−αₖ + jωₖ)·dt), as interleaved complex samples (θ: re, im, α, ω per mode). */
+export function modelSamples(th: ArrayLike<number>, p: number, dt: number, n: number): Float64Array {
   const zr = new Float64Array(p);
   const zi = new Float64Array(p);
   const er = new Float64Array(p);
@@ -77,7 +76,7 @@ function cost(y: Float64Array, dt: number, th: Float64Array, p: number, alphaMin
     er[k] = th[4 * k];
     ei[k] = th[4 * k + 1];
   }
-  let s = 0;
+  const out = new Float64Array(2 * n);
   for (let m = 0; m < n; m++) {
     let mr = 0;
     let mi = 0;
@@ -88,8 +87,20 @@ function cost(y: Float64Array, dt: number, th: Float64Array, p: number, alphaMin
       ei[k] = er[k] * zi[k] + ei[k] * zr[k];
       er[k] = r;
     }
-    const dr = y[2 * m] - mr;
-    const di = y[2 * m + 1] - mi;
+    out[2 * m] = mr;
+    out[2 * m + 1] = mi;
+  }
+  return out;
+}
+
+function cost(y: Float64Array, dt: number, th: Float64Array, p: number, alphaMin: number): number {
+  const n = y.length / 2;
+  for (let k = 0; k < p; k++) if (th[4 * k + 2] < alphaMin || !Number.isFinite(th[4 * k + 2])) return Infinity;
+  const model = modelSamples(th, p, dt, n);
+  let s = 0;
+  for (let i = 0; i < 2 * n; i += 2) {
+    const dr = y[i] - model[i];
+    const di = y[i + 1] - model[i + 1];
     s += dr * dr + di * di;
   }
   return s;

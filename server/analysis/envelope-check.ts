@@ -7,7 +7,7 @@
  * the waveform's least-squares sense (two large modes that cancel draw a linear fade), so the
  * model is never judged against itself: the figures here come from the data's own envelope.
  */
-import type { Mode } from "./damped-fit";
+import { modelSamples, type Mode } from "./damped-fit";
 
 export interface EnvelopeCheck {
   /** R² of the model's envelope (dB) against the band's envelope (dB) over the fit window, 0…1. */
@@ -55,38 +55,15 @@ export function checkEnvelope(y: Float64Array, dt: number, modes: Mode[], noiseV
   const data: number[] = [];
   const model: number[] = [];
   const signal: number[] = [];
-  // Model samples by recurrence (z = e^((−α + jω)·dt)), re-anchored per block.
+  const th = new Float64Array(4 * p);
+  modes.forEach((m, k) => th.set([m.re, m.im, m.alpha, m.omega], 4 * k));
+  const mod = modelSamples(th, p, dt, n);
   for (let b = 0; b < blocks; b++) {
     let ed = 0;
     let em = 0;
-    const i0 = b * per;
-    const er = new Float64Array(p);
-    const ei = new Float64Array(p);
-    const zr = new Float64Array(p);
-    const zi = new Float64Array(p);
-    for (let k = 0; k < p; k++) {
-      const m = modes[k];
-      const g = Math.exp(-m.alpha * i0 * dt);
-      const c = Math.cos(m.omega * i0 * dt);
-      const s = Math.sin(m.omega * i0 * dt);
-      er[k] = g * (m.re * c - m.im * s);
-      ei[k] = g * (m.re * s + m.im * c);
-      const d = Math.exp(-m.alpha * dt);
-      zr[k] = d * Math.cos(m.omega * dt);
-      zi[k] = d * Math.sin(m.omega * dt);
-    }
-    for (let i = i0; i < i0 + per; i++) {
+    for (let i = b * per; i < (b + 1) * per; i++) {
       ed += y[2 * i] ** 2 + y[2 * i + 1] ** 2;
-      let mr = 0;
-      let mi = 0;
-      for (let k = 0; k < p; k++) {
-        mr += er[k];
-        mi += ei[k];
-        const r = er[k] * zr[k] - ei[k] * zi[k];
-        ei[k] = er[k] * zi[k] + ei[k] * zr[k];
-        er[k] = r;
-      }
-      em += mr * mr + mi * mi;
+      em += mod[2 * i] ** 2 + mod[2 * i + 1] ** 2;
     }
     signal.push(em / per);
     data.push(10 * Math.log10(ed / per + 1e-300));

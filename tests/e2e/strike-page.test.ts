@@ -62,6 +62,19 @@ async function colouredPixels(page: Page, selector: string, colours: string[], t
   );
 }
 
+/** Uploads WAV bytes as a strike of `unitId` from inside the signed-in page (its session cookie). */
+async function uploadFromPage(page: Page, unitId: string, wav: Uint8Array, name: string): Promise<{ status: number; body: { id: string } }> {
+  return page.evaluate(
+    async ({ unitId, bytes, name }) => {
+      const form = new FormData();
+      form.append("audio", new File([new Uint8Array(bytes)], name, { type: "audio/wav" }));
+      const r = await fetch(`/api/units/${unitId}/strikes`, { method: "POST", body: form, credentials: "same-origin" });
+      return { status: r.status, body: await r.json() };
+    },
+    { unitId, bytes: Array.from(wav), name },
+  );
+}
+
 /** Waits until `check` gives a number above zero (charts draw after the audio is decoded). */
 async function eventuallyPositive(check: () => Promise<number>, what: string, timeoutMs = 30_000): Promise<number> {
   const deadline = Date.now() + timeoutMs;
@@ -168,16 +181,7 @@ describe("the strike page", () => {
     // One second of digital silence, 16-bit mono 48 kHz, written by wavefile (not our encoder).
     const silent = new WaveFile();
     silent.fromScratch(1, 48_000, "16", new Int16Array(48_000));
-    const bytes = Array.from(silent.toBuffer());
-    const accepted = await page.evaluate(
-      async ({ unitId, bytes }) => {
-        const form = new FormData();
-        form.append("audio", new File([new Uint8Array(bytes)], "silent-take.wav", { type: "audio/wav" }));
-        const r = await fetch(`/api/units/${unitId}/strikes`, { method: "POST", body: form, credentials: "same-origin" });
-        return { status: r.status, body: await r.json() };
-      },
-      { unitId: open.rows[open.rows.length - 1].id, bytes },
-    );
+    const accepted = await uploadFromPage(page, open.rows[open.rows.length - 1].id, silent.toBuffer(), "silent-take.wav");
     expect(accepted.status).toBe(202);
     await page.goto(`${e2e.server.baseUrl}/strikes/${accepted.body.id}`);
     // Without a reload the page moves on from queued/analysing to the failure and its reason.
@@ -195,16 +199,7 @@ describe("the strike page", () => {
     try {
       const file = path.join(dir, "fade.wav");
       execFileSync("sox", ["-n", "-r", "48000", "-b", "24", file, "synth", "4", "sine", "440", "fade", "t", "0", "4", "3.9"]);
-      const bytes = Array.from(readFileSync(file));
-      const accepted = await page.evaluate(
-        async ({ unitId, bytes }) => {
-          const form = new FormData();
-          form.append("audio", new File([new Uint8Array(bytes)], "faded-take.wav", { type: "audio/wav" }));
-          const r = await fetch(`/api/units/${unitId}/strikes`, { method: "POST", body: form, credentials: "same-origin" });
-          return { status: r.status, body: await r.json() };
-        },
-        { unitId: open.rows[open.rows.length - 2].id, bytes },
-      );
+      const accepted = await uploadFromPage(page, open.rows[open.rows.length - 2].id, readFileSync(file), "faded-take.wav");
       expect(accepted.status).toBe(202);
       await page.goto(`${e2e.server.baseUrl}/strikes/${accepted.body.id}`);
       await page.getByText("A decay is not exponential").waitFor({ timeout: 60_000 });

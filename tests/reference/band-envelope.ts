@@ -15,8 +15,11 @@ export interface BandEnvelope {
   levelDb: number[];
 }
 
-/** The log Hilbert envelope of `x` in the band fHz ± halfWidthHz, in blocks of `blockS` seconds. */
-export function bandEnvelope(x: Float64Array, sampleRate: number, fHz: number, halfWidthHz: number, blockS = 0.005): BandEnvelope {
+/**
+ * The analytic signal of x's band fHz ± halfWidthHz (interleaved complex, same length as x): the
+ * whole recording's spectrum, positive frequencies only and doubled, weighted by `weight(|f − fHz|)`.
+ */
+function analyticBand(x: Float64Array, sampleRate: number, fHz: number, halfWidthHz: number, weight: (d: number) => number): number[] {
   let size = 1;
   while (size < 2 * x.length) size *= 2;
   const f = new FFT(size);
@@ -27,19 +30,24 @@ export function bandEnvelope(x: Float64Array, sampleRate: number, fHz: number, h
   f.completeSpectrum(X);
   const binHz = sampleRate / size;
   const Y = f.createComplexArray() as number[];
-  const edge = 0.25 * halfWidthHz; // raised-cosine edges over the outer quarter
   const k0 = Math.max(1, Math.floor((fHz - halfWidthHz) / binHz));
   const k1 = Math.min(size / 2 - 1, Math.ceil((fHz + halfWidthHz) / binHz));
   for (let k = k0; k <= k1; k++) {
     const d = Math.abs(k * binHz - fHz);
     if (d > halfWidthHz) continue;
-    const w = d < halfWidthHz - edge ? 1 : 0.5 * (1 + Math.cos((Math.PI * (d - (halfWidthHz - edge))) / edge));
     // Doubling the positive frequencies (and dropping the negative ones) gives the analytic signal.
-    Y[2 * k] = 2 * w * X[2 * k];
-    Y[2 * k + 1] = 2 * w * X[2 * k + 1];
+    Y[2 * k] = 2 * weight(d) * X[2 * k];
+    Y[2 * k + 1] = 2 * weight(d) * X[2 * k + 1];
   }
   const z = f.createComplexArray() as number[];
   f.inverseTransform(z, Y);
+  return z;
+}
+
+/** The log Hilbert envelope of `x` in the band fHz ± halfWidthHz, in blocks of `blockS` seconds. */
+export function bandEnvelope(x: Float64Array, sampleRate: number, fHz: number, halfWidthHz: number, blockS = 0.005): BandEnvelope {
+  const edge = 0.25 * halfWidthHz; // raised-cosine edges over the outer quarter
+  const z = analyticBand(x, sampleRate, fHz, halfWidthHz, (d) => (d < halfWidthHz - edge ? 1 : 0.5 * (1 + Math.cos((Math.PI * (d - (halfWidthHz - edge))) / edge))));
   const per = Math.max(1, Math.round(blockS * sampleRate));
   const timeS: number[] = [];
   const levelDb: number[] = [];
@@ -82,25 +90,7 @@ export function envelopeLine(env: BandEnvelope, fromS: number, toS: number): { t
  * fitted by least squares with the squared magnitude as weight, Hz.
  */
 export function bandFrequency(x: Float64Array, sampleRate: number, fHz: number, halfWidthHz: number, fromS: number, toS: number): number {
-  let size = 1;
-  while (size < 2 * x.length) size *= 2;
-  const f = new FFT(size);
-  const input = new Float64Array(size);
-  input.set(x);
-  const X = f.createComplexArray() as number[];
-  f.realTransform(X, input);
-  f.completeSpectrum(X);
-  const binHz = sampleRate / size;
-  const Y = f.createComplexArray() as number[];
-  for (let k = Math.max(1, Math.floor((fHz - halfWidthHz) / binHz)); k <= Math.min(size / 2 - 1, Math.ceil((fHz + halfWidthHz) / binHz)); k++) {
-    const d = Math.abs(k * binHz - fHz);
-    if (d > halfWidthHz) continue;
-    const w = 0.5 * (1 + Math.cos((Math.PI * d) / halfWidthHz));
-    Y[2 * k] = w * X[2 * k];
-    Y[2 * k + 1] = w * X[2 * k + 1];
-  }
-  const z = f.createComplexArray() as number[];
-  f.inverseTransform(z, Y);
+  const z = analyticBand(x, sampleRate, fHz, halfWidthHz, (d) => 0.5 * (1 + Math.cos((Math.PI * d) / halfWidthHz)));
   const i0 = Math.ceil(fromS * sampleRate);
   const i1 = Math.min(x.length - 1, Math.floor(toS * sampleRate));
   let unwrapped = 0;
