@@ -314,7 +314,6 @@ export function decodeWav(bytes: Uint8Array): DecodedWav {
       s1 += v;
       s2 += v * v;
       const a = v < 0 ? -v : v;
-      if (a > pk) pk = a;
       if (v > mx) mx = v;
       else if (v < mn) mn = v;
       if (a >= clipLevel) {
@@ -331,19 +330,17 @@ export function decodeWav(bytes: Uint8Array): DecodedWav {
     }
     sum[c] = s1;
     sumSq[c] = s2;
+    pk = Math.max(mx, -mn);
     peak[c] = pk;
     cross[c] = x;
     // Clipping below full scale: an analogue stage that clipped, or a file normalised after
     // clipping, leaves flat tops at the recording's own extremes instead of at full scale.
     const lsb = encoding === "float" ? 0 : 1 / 2 ** (bits - 1);
-    for (const extreme of [mx, mn]) {
-      if (!(Math.abs(extreme) > 0) || Math.abs(extreme) >= clipLevel) continue;
-      const t = flatTops(ch, frames, extreme, lsb, clipRegions, mergeGap);
-      if (t.runs > 0) {
-        flatTopRuns += t.runs;
-        flatTopLevel = Math.max(flatTopLevel, Math.abs(extreme));
-        lastFlat = Math.max(lastFlat, t.last);
-      }
+    const t = flatTops(ch, frames, [mx, mn].filter((e) => Math.abs(e) > 0 && Math.abs(e) < clipLevel), lsb, clipRegions, mergeGap);
+    if (t.runs > 0) {
+      flatTopRuns += t.runs;
+      flatTopLevel = Math.max(flatTopLevel, t.level);
+      lastFlat = Math.max(lastFlat, t.last);
     }
   }
   clipRegions.sort((p, q) => p[0] - q[0]);
@@ -377,37 +374,69 @@ const FLAT_MIN_RUNS = 3;
 const FLAT_PILE_UP = 4;
 
 /**
- * Runs of ≥ CLIP_RUN consecutive samples within a tolerance of `extreme` (a channel's own most
- * positive or most negative sample): equal, or nearly equal (2 LSB, or 0.2 % of the level when
- * noise was added after the clipping). Adds the runs to `regions` and returns their count and the
- * last frame, or 0 runs when the samples do not pile up at the extreme as a clipped signal's do.
+ * Runs of ≥ CLIP_RUN consecutive samples within a tolerance of each of `extremes` (a channel's own
+ * most positive and most negative sample): equal, or nearly equal (2 LSB, or 0.2 % of the level
+ * when noise was added after the clipping). One pass for both. The runs of an extreme whose samples
+ * pile up there as a clipped signal's do are added to `regions`; returns their count, the highest
+ * such level and the last frame (0 runs when none does).
  */
-function flatTops(ch: Float64Array, frames: number, extreme: number, lsb: number, regions: Array<[number, number]>, gap: number): { runs: number; last: number } {
-  const sign = extreme > 0 ? 1 : -1;
-  const level = Math.abs(extreme);
-  const tol = Math.max(2 * lsb, 2e-3 * level);
-  let top = 0;
-  let below = 0;
-  let runs = 0;
-  let run = 0;
-  const found: Array<[number, number]> = [];
+function flatTops(ch: Float64Array, frames: number, extremes: number[], lsb: number, regions: Array<[number, number]>, gap: number): { runs: number; level: number; last: number } {
+  const E = extremes.map((extreme) => {
+    const level = Math.abs(extreme);
+    const tol = Math.max(2 * lsb, 2e-3 * level);
+    return { sign: extreme > 0 ? 1 : -1, level, tol, near: level - 5 * tol, top: 0, below: 0, runs: 0, run: 0, found: [] as Array<[number, number]> };
+  });
+  // Nearly every sample lies further than 5 tolerances from both extremes: a tight first pass
+  // collects the few that do not, and only those are looked at (a gap between them ends a run).
+  const pos = E.find((e) => e.sign > 0);
+  const neg = E.find((e) => e.sign < 0);
+  const hi = pos ? pos.near : Infinity;
+  const lo = neg ? -neg.near : -Infinity;
+  let idx = new Int32Array(1024);
+  let count = 0;
   for (let i = 0; i < frames; i++) {
-    const d = level - sign * ch[i];
-    if (d <= tol) {
-      top++;
-      run++;
-      if (run === CLIP_RUN) {
-        runs++;
-        found.push([i - CLIP_RUN + 1, i]);
-      } else if (run > CLIP_RUN) found[found.length - 1][1] = i;
-    } else {
-      run = 0;
-      if (d >= 2 * tol && d < 5 * tol) below++;
+    const v = ch[i];
+    if (v >= hi || v <= lo) {
+      if (count === idx.length) {
+        const grown = new Int32Array(2 * idx.length);
+        grown.set(idx);
+        idx = grown;
+      }
+      idx[count++] = i;
     }
   }
-  if (runs < FLAT_MIN_RUNS || top < FLAT_PILE_UP * Math.max(1, below)) return { runs: 0, last: -1 };
-  for (const [a, b] of found) for (let i = a; i <= b; i++) addClip(regions, i, gap);
-  return { runs, last: found[found.length - 1][1] };
+  let prev = -2;
+  for (let j = 0; j < count; j++) {
+    const i = idx[j];
+    if (i !== prev + 1) for (const e of E) e.run = 0;
+    prev = i;
+    const v = ch[i];
+    for (const e of E) {
+      const d = e.level - e.sign * v;
+      if (d <= e.tol) {
+        e.top++;
+        e.run++;
+        if (e.run === CLIP_RUN) {
+          e.runs++;
+          e.found.push([i - CLIP_RUN + 1, i]);
+        } else if (e.run > CLIP_RUN) e.found[e.found.length - 1][1] = i;
+      } else {
+        e.run = 0;
+        if (d >= 2 * e.tol && d < 5 * e.tol) e.below++;
+      }
+    }
+  }
+  let runs = 0;
+  let level = 0;
+  let last = -1;
+  for (const e of E) {
+    if (e.runs < FLAT_MIN_RUNS || e.top < FLAT_PILE_UP * Math.max(1, e.below)) continue;
+    for (const [a, b] of e.found) for (let i = a; i <= b; i++) addClip(regions, i, gap);
+    runs += e.runs;
+    level = Math.max(level, e.level);
+    last = Math.max(last, e.found[e.found.length - 1][1]);
+  }
+  return { runs, level, last };
 }
 
 /** Adds a clipped sample to the regions, merging with a region that ends within `gap` frames. */
