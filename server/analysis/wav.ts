@@ -299,6 +299,16 @@ export function decodeWav(bytes: Uint8Array): DecodedWav {
     let mn = 0;
     let run = 0;
     let x = 0;
+    // Samples near the channel's running extremes, for the flat-top search: a sample within five
+    // tolerances of the final extreme is also within five of the running one when it is read
+    // (the running extreme is never larger, and x − 5·tol(x) grows with x), so this is a superset.
+    const lsb = encoding === "float" ? 0 : 1 / 2 ** (bits - 1);
+    const near = (level: number) => level - 5 * Math.max(2 * lsb, 2e-3 * level);
+    let hiRun = near(0);
+    let loRun = -near(0);
+    let nearAbs = 0; // min(hiRun, −loRun): below it a sample is neither a new extreme nor a candidate
+    let cand = new Int32Array(1024);
+    let nCand = 0;
     for (let i = 0; i < frames; i++) {
       let v = ch[i];
       if (encoding === "float") {
@@ -314,8 +324,24 @@ export function decodeWav(bytes: Uint8Array): DecodedWav {
       s1 += v;
       s2 += v * v;
       const a = v < 0 ? -v : v;
-      if (v > mx) mx = v;
-      else if (v < mn) mn = v;
+      if (a >= nearAbs) {
+        if (v > mx) {
+          mx = v;
+          hiRun = near(v);
+        } else if (v < mn) {
+          mn = v;
+          loRun = -near(-v);
+        }
+        nearAbs = Math.min(hiRun, -loRun);
+        if (v >= hiRun || v <= loRun) {
+          if (nCand === cand.length) {
+            const grown = new Int32Array(2 * cand.length);
+            grown.set(cand);
+            cand = grown;
+          }
+          cand[nCand++] = i;
+        }
+      }
       if (a >= clipLevel) {
         run++;
         if (run >= CLIP_RUN) {
@@ -335,8 +361,7 @@ export function decodeWav(bytes: Uint8Array): DecodedWav {
     cross[c] = x;
     // Clipping below full scale: an analogue stage that clipped, or a file normalised after
     // clipping, leaves flat tops at the recording's own extremes instead of at full scale.
-    const lsb = encoding === "float" ? 0 : 1 / 2 ** (bits - 1);
-    const t = flatTops(ch, frames, [mx, mn].filter((e) => Math.abs(e) > 0 && Math.abs(e) < clipLevel), lsb, clipRegions, mergeGap);
+    const t = flatTops(ch, cand.subarray(0, nCand), [mx, mn].filter((e) => Math.abs(e) > 0 && Math.abs(e) < clipLevel), lsb, clipRegions, mergeGap);
     if (t.runs > 0) {
       flatTopRuns += t.runs;
       flatTopLevel = Math.max(flatTopLevel, t.level);
@@ -376,41 +401,31 @@ const FLAT_PILE_UP = 4;
 /**
  * Runs of ≥ CLIP_RUN consecutive samples within a tolerance of each of `extremes` (a channel's own
  * most positive and most negative sample): equal, or nearly equal (2 LSB, or 0.2 % of the level
- * when noise was added after the clipping). One pass for both. The runs of an extreme whose samples
+ * when noise was added after the clipping), among the candidate frames collected while decoding. The runs of an extreme whose samples
  * pile up there as a clipped signal's do are added to `regions`; returns their count, the highest
  * such level and the last frame (0 runs when none does).
  */
-function flatTops(ch: Float64Array, frames: number, extremes: number[], lsb: number, regions: Array<[number, number]>, gap: number): { runs: number; level: number; last: number } {
+function flatTops(ch: Float64Array, candidates: Int32Array, extremes: number[], lsb: number, regions: Array<[number, number]>, gap: number): { runs: number; level: number; last: number } {
   const E = extremes.map((extreme) => {
     const level = Math.abs(extreme);
     const tol = Math.max(2 * lsb, 2e-3 * level);
     return { sign: extreme > 0 ? 1 : -1, level, tol, near: level - 5 * tol, top: 0, below: 0, runs: 0, run: 0, found: [] as Array<[number, number]> };
   });
-  // Nearly every sample lies further than 5 tolerances from both extremes: a tight first pass
-  // collects the few that do not, and only those are looked at (a gap between them ends a run).
+  // Only the candidates (samples near the running extremes, in order) can lie within 5 tolerances
+  // of the final ones; a gap between consecutive ones ends a run.
   const pos = E.find((e) => e.sign > 0);
   const neg = E.find((e) => e.sign < 0);
   const hi = pos ? pos.near : Infinity;
   const lo = neg ? -neg.near : -Infinity;
-  let idx = new Int32Array(1024);
-  let count = 0;
-  for (let i = 0; i < frames; i++) {
-    const v = ch[i];
-    if (v >= hi || v <= lo) {
-      if (count === idx.length) {
-        const grown = new Int32Array(2 * idx.length);
-        grown.set(idx);
-        idx = grown;
-      }
-      idx[count++] = i;
-    }
-  }
+  const idx = candidates;
+  const count = candidates.length;
   let prev = -2;
   for (let j = 0; j < count; j++) {
     const i = idx[j];
+    const v = ch[i];
+    if (v < hi && v > lo) continue;
     if (i !== prev + 1) for (const e of E) e.run = 0;
     prev = i;
-    const v = ch[i];
     for (const e of E) {
       const d = e.level - e.sign * v;
       if (d <= e.tol) {
