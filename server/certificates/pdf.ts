@@ -27,7 +27,7 @@ const FONTS = {
 };
 
 /** Tinelog's certificate palette: slate ink, a deep teal accent, and muted signal colours. */
-const COLOUR = {
+export const COLOUR = {
   ink: "#1E2A32",
   muted: "#5B6B73",
   accent: "#2F6F6A",
@@ -40,10 +40,10 @@ const COLOUR = {
   amendSoft: "#F6F1E4",
 };
 
-const PAGE = { width: 595.28, height: 841.89 }; // A4 in points
-const MARGIN = { left: 48, right: 48, top: 70, bottom: 62 };
-const CONTENT_WIDTH = PAGE.width - MARGIN.left - MARGIN.right;
-const BOTTOM = PAGE.height - MARGIN.bottom;
+export const PAGE = { width: 595.28, height: 841.89 }; // A4 in points
+export const MARGIN = { left: 48, right: 48, top: 70, bottom: 62 };
+export const CONTENT_WIDTH = PAGE.width - MARGIN.left - MARGIN.right;
+export const BOTTOM = PAGE.height - MARGIN.bottom;
 
 /** Thrown when the data cannot make a certificate; lists what is wrong. */
 export class CertificateRenderError extends Error {
@@ -67,7 +67,7 @@ export function formatDateUtc(iso: string): string {
 }
 
 const MINUS = "\u2212";
-function signed(value: number, decimals: number): string {
+export function signed(value: number, decimals: number): string {
   const s = Math.abs(value).toFixed(decimals);
   if (Number(s) === 0) return s;
   return value < 0 ? `${MINUS}${s}` : `+${s}`;
@@ -83,7 +83,7 @@ export function formatWithUncertainty(value: number, u: number): { value: string
   return { value: value.toFixed(decimals), u: u.toFixed(decimals) };
 }
 
-function trimNumber(value: number, maxDecimals: number): string {
+export function trimNumber(value: number, maxDecimals: number): string {
   return Number(value.toFixed(maxDecimals)).toString();
 }
 
@@ -98,17 +98,17 @@ const SUPPORT_WORDS: Record<string, string> = {
   stand_or_resonator: "on a stand or resonator",
   other: "other (see workshop records)",
 };
-function supportWords(support: string): string {
+export function supportWords(support: string): string {
   return SUPPORT_WORDS[support] ?? support.replace(/_/g, " ");
 }
 
-function familyWords(family: string): string {
+export function familyWords(family: string): string {
   return family.replace(/_/g, " ");
 }
 
-const RESULT_WORDS: Record<LineResult, string> = { pass: "Pass", fail: "Fail", inconclusive: "Inconclusive" };
-const RESULT_COLOUR: Record<LineResult, string> = { pass: COLOUR.pass, fail: COLOUR.fail, inconclusive: COLOUR.inconclusive };
-const VERDICT_COLOUR = { within_tolerance: COLOUR.pass, out_of_tolerance: COLOUR.fail, inconclusive: COLOUR.inconclusive } as const;
+export const RESULT_WORDS: Record<LineResult, string> = { pass: "Pass", fail: "Fail", inconclusive: "Inconclusive" };
+export const RESULT_COLOUR: Record<LineResult, string> = { pass: COLOUR.pass, fail: COLOUR.fail, inconclusive: COLOUR.inconclusive };
+export const VERDICT_COLOUR = { within_tolerance: COLOUR.pass, out_of_tolerance: COLOUR.fail, inconclusive: COLOUR.inconclusive } as const;
 
 /** The fixed sentences of the fine print, exported so tests and the verification page use the same words. */
 export const FINE_PRINT = {
@@ -125,7 +125,7 @@ export const FINE_PRINT = {
 
 // ---------------------------------------------------------------------------------------------
 
-type Doc = PDFKit.PDFDocument;
+export type Doc = PDFKit.PDFDocument;
 
 interface Column {
   key: string;
@@ -163,7 +163,7 @@ function cellsFor(r: CertificateResult): Record<string, string> {
   };
 }
 
-async function qrPng(url: string): Promise<Buffer> {
+export async function qrPng(url: string): Promise<Buffer> {
   // Error correction M survives a smudge or a fold; margin 4 is the quiet zone the QR standard asks for.
   return QRCode.toBuffer(url, { type: "png", errorCorrectionLevel: "M", margin: 4, scale: 6, color: { dark: "#1E2A32ff", light: "#ffffffff" } });
 }
@@ -180,37 +180,12 @@ export async function renderCertificatePdf(input: CertificateData): Promise<Buff
   }
   const data = parsed.data;
   const qr = await qrPng(data.verifyUrl);
-  const issued = new Date(data.issuedAt);
-
-  const doc = new PDFDocument({
-    size: "A4",
-    margins: MARGIN,
-    bufferPages: true,
-    autoFirstPage: false,
-    pdfVersion: "1.7",
-    subset: "PDF/A-2b",
-    lang: "en-GB",
-    displayTitle: true,
-    info: {
-      Title: `Test certificate ${data.number}`,
-      Author: data.workshop.name,
-      Subject: `Test certificate for unit ${data.unit.serial}, ${data.product.specName} v${data.product.specVersion}`,
-      Creator: "Tinelog",
-      Producer: "Tinelog (pdfkit)",
-      CreationDate: issued,
-      ModDate: issued,
-    },
+  const { doc, finished } = openCertificateDocument({
+    title: `Test certificate ${data.number}`,
+    author: data.workshop.name,
+    subject: `Test certificate for unit ${data.unit.serial}, ${data.product.specName} v${data.product.specVersion}`,
+    issuedAt: data.issuedAt,
   });
-  const chunks: Buffer[] = [];
-  doc.on("data", (c: Buffer) => chunks.push(c));
-  const finished = new Promise<Buffer>((resolve, reject) => {
-    doc.on("end", () => resolve(Buffer.concat(chunks)));
-    doc.on("error", reject);
-  });
-
-  doc.registerFont("regular", FONTS.regular);
-  doc.registerFont("medium", FONTS.medium);
-  doc.registerFont("semibold", FONTS.semibold);
 
   doc.on("pageAdded", () => drawHeader(doc, data));
   doc.addPage();
@@ -228,22 +203,57 @@ export async function renderCertificatePdf(input: CertificateData): Promise<Buff
   return finished;
 }
 
-function drawHeader(doc: Doc, data: CertificateData): void {
+/**
+ * A new A4 certificate document with Inter registered ("regular", "medium", "semibold") and its
+ * bytes collected. The dates come from the issue time, so the same data give the same bytes.
+ */
+export function openCertificateDocument(info: { title: string; author: string; subject: string; issuedAt: string }): { doc: Doc; finished: Promise<Buffer> } {
+  const issued = new Date(info.issuedAt);
+  const doc = new PDFDocument({
+    size: "A4",
+    margins: MARGIN,
+    bufferPages: true,
+    autoFirstPage: false,
+    pdfVersion: "1.7",
+    subset: "PDF/A-2b",
+    lang: "en-GB",
+    displayTitle: true,
+    info: { Title: info.title, Author: info.author, Subject: info.subject, Creator: "Tinelog", Producer: "Tinelog (pdfkit)", CreationDate: issued, ModDate: issued },
+  });
+  const chunks: Buffer[] = [];
+  doc.on("data", (c: Buffer) => chunks.push(c));
+  const finished = new Promise<Buffer>((resolve, reject) => {
+    doc.on("end", () => resolve(Buffer.concat(chunks)));
+    doc.on("error", reject);
+  });
+  doc.registerFont("regular", FONTS.regular);
+  doc.registerFont("medium", FONTS.medium);
+  doc.registerFont("semibold", FONTS.semibold);
+  return { doc, finished };
+}
+
+/** The running header of every page: the workshop on the left, the document and its number on the right. */
+export function drawRunningHeader(doc: Doc, workshopName: string, title: string): void {
   const y = 30;
   doc.save();
-  doc.font("semibold").fontSize(9).fillColor(COLOUR.ink).text(data.workshop.name, MARGIN.left, y, { width: CONTENT_WIDTH / 2 - 8, height: 11, ellipsis: true });
-  doc
-    .font("regular")
-    .fontSize(8.5)
-    .fillColor(COLOUR.muted)
-    .text(`Test certificate No. ${data.number}`, MARGIN.left + CONTENT_WIDTH / 2, y, { width: CONTENT_WIDTH / 2, align: "right", lineBreak: false });
+  doc.font("semibold").fontSize(9).fillColor(COLOUR.ink).text(workshopName, MARGIN.left, y, { width: CONTENT_WIDTH / 2 - 8, height: 11, ellipsis: true });
+  doc.font("regular").fontSize(8.5).fillColor(COLOUR.muted).text(title, MARGIN.left + CONTENT_WIDTH / 2, y, { width: CONTENT_WIDTH / 2, align: "right", lineBreak: false });
   doc.moveTo(MARGIN.left, 50).lineTo(PAGE.width - MARGIN.right, 50).lineWidth(1.2).strokeColor(COLOUR.accent).stroke();
   doc.restore();
   doc.x = MARGIN.left;
   doc.y = MARGIN.top;
 }
 
+function drawHeader(doc: Doc, data: CertificateData): void {
+  drawRunningHeader(doc, data.workshop.name, `Test certificate No. ${data.number}`);
+}
+
 function drawFooters(doc: Doc, data: CertificateData): void {
+  drawPageFooters(doc, `Certificate No. ${data.number}`, data.withdrawn ? "WITHDRAWN" : data.superseded ? "SUPERSEDED" : null);
+}
+
+/** Number, "reproduce only in full" and "Page i of n" on every page, and the watermark when there is one. */
+export function drawPageFooters(doc: Doc, label: string, watermark: "WITHDRAWN" | "SUPERSEDED" | null): void {
   const range = doc.bufferedPageRange();
   const total = range.count;
   for (let i = range.start; i < range.start + total; i++) {
@@ -254,30 +264,36 @@ function drawFooters(doc: Doc, data: CertificateData): void {
     const y = PAGE.height - 44;
     doc.moveTo(MARGIN.left, y - 8).lineTo(PAGE.width - MARGIN.right, y - 8).lineWidth(0.5).strokeColor(COLOUR.rule).stroke();
     doc.font("regular").fontSize(7.5).fillColor(COLOUR.muted);
-    doc.text(`Certificate No. ${data.number}`, MARGIN.left, y, { width: CONTENT_WIDTH / 3, lineBreak: false });
+    doc.text(label, MARGIN.left, y, { width: CONTENT_WIDTH / 3, lineBreak: false });
     doc.text("Reproduce only in full", MARGIN.left + CONTENT_WIDTH / 3, y, { width: CONTENT_WIDTH / 3, align: "center", lineBreak: false });
     doc.font("medium").fillColor(COLOUR.ink);
     doc.text(`Page ${i - range.start + 1} of ${total}`, MARGIN.left + (2 * CONTENT_WIDTH) / 3, y, { width: CONTENT_WIDTH / 3, align: "right", lineBreak: false });
-    if (data.superseded) drawSupersededWatermark(doc);
+    if (watermark) drawWatermark(doc, watermark);
     doc.page.margins.bottom = bottom;
   }
 }
 
-function drawSupersededWatermark(doc: Doc): void {
+/** A large, faint diagonal word across the page (a superseded or withdrawn certificate). */
+function drawWatermark(doc: Doc, word: string): void {
   doc.save();
   const cx = PAGE.width / 2;
   const cy = PAGE.height / 2;
   doc.rotate(-35, { origin: [cx, cy] });
   doc.font("semibold").fontSize(84).fillColor(COLOUR.fail).fillOpacity(0.1);
-  doc.text("SUPERSEDED", cx - 330, cy - 50, { width: 660, align: "center", lineBreak: false });
+  doc.text(word, cx - 330, cy - 50, { width: 660, align: "center", lineBreak: false });
   doc.restore();
 }
 
-function ensureSpace(doc: Doc, height: number): void {
+/** The notice at the top of a withdrawn certificate: when, why, and that it is no longer valid. */
+export function drawWithdrawnNotice(doc: Doc, withdrawn: { at: string; reason: string }): void {
+  noticeBox(doc, `WITHDRAWN on ${formatDateUtc(withdrawn.at)}. This certificate was withdrawn by the issuing workshop and is no longer valid; it stays on record as issued. Reason: ${withdrawn.reason}`, COLOUR.fail, "#FFFFFF", true);
+}
+
+export function ensureSpace(doc: Doc, height: number): void {
   if (doc.y + height > BOTTOM) doc.addPage();
 }
 
-function sectionHeading(doc: Doc, title: string, spaceAfterHeading = 40): void {
+export function sectionHeading(doc: Doc, title: string, spaceAfterHeading = 40): void {
   ensureSpace(doc, 18 + spaceAfterHeading);
   doc.moveDown(0.5);
   doc.font("semibold").fontSize(10).fillColor(COLOUR.accent).text(title, MARGIN.left, doc.y, { width: CONTENT_WIDTH });
@@ -305,7 +321,8 @@ function drawTitleBlock(doc: Doc, data: CertificateData, qr: Buffer): void {
   const badgeY = doc.y;
   doc.roundedRect(MARGIN.left, badgeY, badgeW, 20, 4).fillColor(VERDICT_COLOUR[data.verdict]).fill();
   doc.fillColor("#FFFFFF").text(verdict, MARGIN.left, badgeY + 5, { width: badgeW, align: "center", lineBreak: false });
-  doc.font("regular").fontSize(8.5).fillColor(COLOUR.muted).text(`Verdict against ${data.product.specName}, version ${data.product.specVersion}`, MARGIN.left + badgeW + 10, badgeY + 5.5, {
+  const against = data.concession ? "Released under a concession: see the statement of conformity" : `Verdict against ${data.product.specName}, version ${data.product.specVersion}`;
+  doc.font("regular").fontSize(8.5).fillColor(COLOUR.muted).text(against, MARGIN.left + badgeW + 10, badgeY + 5.5, {
     width: textWidth - badgeW - 10,
     lineBreak: false,
   });
@@ -315,6 +332,7 @@ function drawTitleBlock(doc: Doc, data: CertificateData, qr: Buffer): void {
   doc.font("regular").fontSize(7.5).fillColor(COLOUR.muted).text(`Verify at ${data.verifyUrl} \u00B7 code ${data.verificationCode}`, MARGIN.left, doc.y, { width: CONTENT_WIDTH, align: "right", link: data.verifyUrl });
   doc.moveDown(0.4);
 
+  if (data.withdrawn) drawWithdrawnNotice(doc, data.withdrawn);
   if (data.superseded) {
     const msg = data.supersededBy
       ? `SUPERSEDED. This certificate has been replaced by No. ${data.supersededBy}; it stays on record as issued but is no longer valid.`
@@ -332,7 +350,7 @@ function drawTitleBlock(doc: Doc, data: CertificateData, qr: Buffer): void {
   }
 }
 
-function noticeBox(doc: Doc, message: string, fill: string, ink: string, strong: boolean): void {
+export function noticeBox(doc: Doc, message: string, fill: string, ink: string, strong: boolean): void {
   doc.font(strong ? "semibold" : "regular").fontSize(9);
   const h = doc.heightOfString(message, { width: CONTENT_WIDTH - 20 }) + 14;
   ensureSpace(doc, h + 6);
@@ -383,7 +401,7 @@ function drawParticulars(doc: Doc, data: CertificateData): void {
   doc.font("regular").fontSize(8.5).fillColor(COLOUR.ink).text(data.method.summary, { width: CONTENT_WIDTH, lineGap: 1 });
 }
 
-function labelledColumn(doc: Doc, rows: [string, string][], x: number, y: number, width: number): number {
+export function labelledColumn(doc: Doc, rows: [string, string][], x: number, y: number, width: number): number {
   const labelW = 92;
   for (const [label, value] of rows) {
     doc.font("regular").fontSize(7.5).fillColor(COLOUR.muted).text(label, x, y + 1, { width: labelW });
@@ -454,7 +472,8 @@ function drawConformity(doc: Doc, data: CertificateData): void {
   sectionHeading(doc, "Statement of conformity", 50);
   const colour = VERDICT_COLOUR[data.verdict];
   doc.font("semibold").fontSize(10);
-  const head = verdictWords[data.verdict];
+  // A concession's departures and reason are part of the signed statement itself.
+  const head = data.concession ? `${verdictWords[data.verdict]} \u2014 released as it is under a concession` : verdictWords[data.verdict];
   doc.font("regular").fontSize(9);
   const bodyH = doc.heightOfString(data.statementOfConformity, { width: CONTENT_WIDTH - 24, lineGap: 1 });
   const h = bodyH + 34;
@@ -468,7 +487,7 @@ function drawConformity(doc: Doc, data: CertificateData): void {
   doc.y = y + h;
 }
 
-function drawAuthorisation(doc: Doc, data: CertificateData): void {
+export function drawAuthorisation(doc: Doc, data: Pick<CertificateData, "authorisedBy" | "authorisedAt">): void {
   sectionHeading(doc, "Authorisation", 40);
   const y = doc.y;
   doc.font("regular").fontSize(7.5).fillColor(COLOUR.muted).text("Authorised by", MARGIN.left, y + 1, { width: 92 });
@@ -479,7 +498,7 @@ function drawAuthorisation(doc: Doc, data: CertificateData): void {
   doc.x = MARGIN.left;
 }
 
-function drawFinePrint(doc: Doc, data: CertificateData): void {
+export function drawFinePrint(doc: Doc, data: Pick<CertificateData, "flags">): void {
   const notes = [FINE_PRINT.itemOnly, FINE_PRINT.fullOnly, FINE_PRINT.uncertainty];
   if (data.flags.measurementOnlyCaution) notes.push(FINE_PRINT.measurementOnly);
   notes.push(FINE_PRINT.signature);
@@ -498,7 +517,7 @@ function drawFinePrint(doc: Doc, data: CertificateData): void {
   doc.x = MARGIN.left;
 }
 
-function drawEndMark(doc: Doc): void {
+export function drawEndMark(doc: Doc): void {
   ensureSpace(doc, 30);
   doc.moveDown(1);
   const y = doc.y + 5;

@@ -198,9 +198,9 @@ describe("disposition and release", () => {
     expect(res.status).toBe(200);
     expect(res.headers["content-type"]).toMatch(/text\/csv/);
     const lines = res.text.trim().split("\r\n");
-    expect(lines[0]).toMatch(/^serial,verdict,fundamental_hz,deviation_cents/);
+    expect(lines[0]).toMatch(/^serial,verdict,verdict_code,why,/);
     expect(lines).toHaveLength(6);
-    expect(lines.find((l) => l.startsWith("T-0002"))).toMatch(/out_of_tolerance/);
+    expect(lines.find((l) => l.startsWith("T-0002"))).toMatch(/^T-0002,Out of tolerance,out_of_tolerance,/);
   });
 
   it("keeps an audit trail of who did what", async () => {
