@@ -35,6 +35,8 @@ const unit = async (serial: string) => (await get("qa", `/api/units/${unitIds[se
 const upload = async (who: Who, serial: string, wav: Uint8Array, name: string) =>
   (await t.as(who)).post(`/api/units/${unitIds[serial]}/strikes`).set("Origin", ORIGIN).field("temperatureC", "21").attach("audio", Buffer.from(wav), name);
 const binary = (req: request.Test) => req.buffer(true).parse((res, cb) => { const c: Buffer[] = []; res.on("data", (d: Buffer) => c.push(d)); res.on("end", () => cb(null, Buffer.concat(c))); });
+/** "BTW-2026-00004" → "BTW-2026-": every certificate of the year. */
+const concessionPrefix = (number: string) => number.replace(/\d+$/, "");
 const wrongRecording = forkWav({ frequencyHz: 440 * 2 ** (-20 / 1200), seed: 404 });
 
 /** The chain must hold after every correction, walked in process and by the CLI on the file. */
@@ -272,6 +274,11 @@ describe("the batch certificate", () => {
     expect(v).toMatchObject({ kind: "batch", batch: "BTW-2611", signatureValid: true, pdfIntact: true, withdrawn: null, excluded: [{ serial: "F-0008", reason: "scrapped" }] });
     expect(v.units).toHaveLength(9);
     expect(JSON.stringify(v)).not.toMatch(/buyer@retail|Corner Music Shop/);
+
+    // Found by its number in this workshop's search, never in another's.
+    expect((await get("qa", `/api/search?q=${number}`)).body.certificates).toEqual([{ number, kind: "batch", unitId: null, batchId, label: "Batch BTW-2611", state: "current" }]);
+    expect((await get("qa", `/api/search?q=${concessionPrefix(number)}`)).body.certificates.map((c: { kind: string }) => c.kind)).toEqual(expect.arrayContaining(["unit", "batch"]));
+    expect((await get("other", `/api/search?q=${number}`)).body.certificates).toEqual([]);
 
     const mail = t.runtime.db.select().from(capturedMail).all().find((m) => m.envelopeTo.includes("buyer@retail.example.org"))!;
     const attachment = (await simpleParser(mail.raw)).attachments.find((a) => a.contentType === "application/pdf")!;
