@@ -10,11 +10,14 @@ export type CertificateListItem = {
   recipientEmail: string;
   recipientName: string | null;
   verdict: Verdict;
+  /** Issued for a unit released under a concession (the certificate states it). */
+  concession: boolean;
   verifyUrl: string;
   pdfSha256: string;
   amends: string | null;
   supersededBy: string | null;
-  state: "current" | "superseded";
+  state: "current" | "superseded" | "withdrawn";
+  withdrawn: { at: string; reason: string; by: string | null } | null;
   mail: CertificateMail | null;
 };
 
