@@ -168,6 +168,11 @@ describe("superseding a disposition", () => {
     const res = await post("qa", `/api/dispositions/${standing}/supersede`, { decision: "use_as_is", reason: "Too late now." });
     expect(res.status).toBe(409);
     expect(res.body.error.message).toMatch(/BTW-2611 is released; dispositions can no longer change/);
+    // Nor can a strike of a released batch be voided.
+    const strikeId = (await unit("F-0005")).strikes[0].id;
+    const voided = await post("qa", `/api/strikes/${strikeId}/void`, { reason: "Too late for this." });
+    expect(voided.status).toBe(409);
+    expect(voided.body.error.message).toMatch(/BTW-2611 is released; its strikes can no longer be voided/);
   });
 });
 
