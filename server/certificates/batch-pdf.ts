@@ -4,7 +4,7 @@
  * the concessions with what each departs from, and the units the certificate does not cover.
  * Deterministic like the unit certificate: the same data give the same bytes.
  */
-import { decisionRuleWords, verdictWords } from "../../shared/schemas/certificate.ts";
+import { verdictWords } from "../../shared/schemas/certificate.ts";
 import { batchCertificateDataSchema, type BatchCertificateData, type BatchCertificateUnit } from "../../shared/schemas/batch-certificate.ts";
 import {
   BOTTOM,
@@ -17,32 +17,31 @@ import {
   RESULT_WORDS,
   VERDICT_COLOUR,
   drawAuthorisation,
+  drawColumnHeader,
+  drawDecisionAndStatement,
   drawEndMark,
   drawFinePrint,
+  drawMethod,
   drawPageFooters,
+  drawParticularColumns,
   drawRunningHeader,
+  drawTitleHead,
+  drawVerifyLine,
   drawWithdrawnNotice,
   ensureSpace,
   familyWords,
   formatDateTimeUtc,
   formatDateUtc,
   formatWithUncertainty,
-  labelledColumn,
   openCertificateDocument,
   qrPng,
   sectionHeading,
   signed,
   supportWords,
   trimNumber,
+  type Column,
   type Doc,
 } from "./pdf.ts";
-
-interface Column {
-  key: string;
-  title: string;
-  width: number;
-  align: "left" | "right" | "center";
-}
 
 /** 499 pt of content width: serial, partial and the measured columns of the unit certificate. */
 const COLUMNS: Column[] = [
@@ -112,28 +111,12 @@ export async function renderBatchCertificatePdf(input: BatchCertificateData): Pr
 }
 
 function drawBatchTitle(doc: Doc, data: BatchCertificateData, qr: Buffer): void {
-  const top = doc.y;
-  const qrSize = 84;
-  const qrX = PAGE.width - MARGIN.right - qrSize;
-  doc.image(qr, qrX, top - 4, { width: qrSize, height: qrSize });
-  doc.font("regular").fontSize(6.5).fillColor(COLOUR.muted).text("Scan to verify", qrX, top + qrSize - 2, { width: qrSize, align: "center" });
-  const textWidth = CONTENT_WIDTH - qrSize - 16;
-  doc.font("semibold").fontSize(22).fillColor(COLOUR.ink).text("Batch test certificate", MARGIN.left, top, { width: textWidth });
-  doc.font("medium").fontSize(11).fillColor(COLOUR.accent).text(`No. ${data.number}`, { width: textWidth });
-  doc.moveDown(0.3);
   const conceded = data.units.filter((u) => u.concession).length;
-  doc
-    .font("regular")
-    .fontSize(8.5)
-    .fillColor(COLOUR.muted)
-    .text(
-      `Measured partial frequencies and decay of ${data.units.length} unit${data.units.length === 1 ? "" : "s"} of batch ${data.batch.code}${conceded ? `, ${conceded} of them released under a concession` : ""}.`,
-      { width: textWidth },
-    );
+  const subtitle = `Measured partial frequencies and decay of ${data.units.length} unit${data.units.length === 1 ? "" : "s"} of batch ${data.batch.code}${conceded ? `, ${conceded} of them released under a concession` : ""}.`;
+  const { top, qrSize } = drawTitleHead(doc, qr, "Batch test certificate", data.number, subtitle);
   doc.y = Math.max(doc.y + 8, top + qrSize + 10);
   doc.x = MARGIN.left;
-  doc.font("regular").fontSize(7.5).fillColor(COLOUR.muted).text(`Verify at ${data.verifyUrl} \u00B7 code ${data.verificationCode}`, MARGIN.left, doc.y, { width: CONTENT_WIDTH, align: "right", link: data.verifyUrl });
-  doc.moveDown(0.4);
+  drawVerifyLine(doc, data);
   if (data.withdrawn) drawWithdrawnNotice(doc, data.withdrawn);
 }
 
@@ -163,31 +146,11 @@ function drawBatchParticulars(doc: Doc, data: BatchCertificateData): void {
     ["Support while struck", c.support.split(", ").map(supportWords).join(", ")],
     ["Place of measurement", "at the issuing workshop"],
   ];
-  sectionHeading(doc, "Particulars", 150);
-  const colW = (CONTENT_WIDTH - 24) / 2;
-  const topY = doc.y;
-  const leftEnd = labelledColumn(doc, left, MARGIN.left, topY, colW);
-  const rightEnd = labelledColumn(doc, right, MARGIN.left + colW + 24, topY, colW);
-  doc.x = MARGIN.left;
-  doc.y = Math.max(leftEnd, rightEnd);
-  sectionHeading(doc, "Method", 40);
-  doc.font("medium").fontSize(9).fillColor(COLOUR.ink).text(`${data.method.name}, analyser version ${data.method.analyserVersion}`, MARGIN.left, doc.y, { width: CONTENT_WIDTH });
-  doc.font("regular").fontSize(8.5).fillColor(COLOUR.ink).text(data.method.summary, { width: CONTENT_WIDTH, lineGap: 1 });
+  drawParticularColumns(doc, left, right);
+  drawMethod(doc, data.method);
 }
 
-function drawUnitTableHeader(doc: Doc): void {
-  const y = doc.y;
-  doc.font("medium").fontSize(7.5);
-  const h = Math.max(...COLUMNS.map((c) => doc.heightOfString(c.title, { width: c.width - 6 }))) + 8;
-  doc.rect(MARGIN.left, y, CONTENT_WIDTH, h).fillColor(COLOUR.accentSoft).fill();
-  let x = MARGIN.left;
-  doc.fillColor(COLOUR.ink);
-  for (const col of COLUMNS) {
-    doc.text(col.title, x + 3, y + 4, { width: col.width - 6, align: col.align });
-    x += col.width;
-  }
-  doc.y = y + h;
-}
+const drawUnitTableHeader = (doc: Doc) => drawColumnHeader(doc, COLUMNS);
 
 function drawUnitResults(doc: Doc, data: BatchCertificateData): void {
   sectionHeading(doc, "Results per unit", 70);
@@ -263,21 +226,8 @@ function drawNotCovered(doc: Doc, data: BatchCertificateData): void {
 }
 
 function drawBatchConformity(doc: Doc, data: BatchCertificateData): void {
-  sectionHeading(doc, "Decision rule", 30);
-  doc.font("regular").fontSize(8.5).fillColor(COLOUR.ink).text(decisionRuleWords[data.decisionRule], MARGIN.left, doc.y, { width: CONTENT_WIDTH, lineGap: 1 });
-  sectionHeading(doc, "Statement of conformity", 50);
   const conceded = data.units.filter((u) => u.concession).length;
   const colour = conceded === 0 ? VERDICT_COLOUR.within_tolerance : VERDICT_COLOUR.inconclusive;
   const head = conceded === 0 ? `${verdictWords.within_tolerance}: every unit listed conforms` : `${data.units.length - conceded} conform, ${conceded} released under a concession`;
-  doc.font("regular").fontSize(9);
-  const bodyH = doc.heightOfString(data.statementOfConformity, { width: CONTENT_WIDTH - 24, lineGap: 1 });
-  const h = bodyH + 34;
-  ensureSpace(doc, h);
-  const y = doc.y;
-  doc.rect(MARGIN.left, y, 3, h).fillColor(colour).fill();
-  doc.rect(MARGIN.left + 3, y, CONTENT_WIDTH - 3, h).fillColor(COLOUR.zebra).fill();
-  doc.font("semibold").fontSize(10).fillColor(colour).text(head, MARGIN.left + 14, y + 8, { width: CONTENT_WIDTH - 24 });
-  doc.font("regular").fontSize(9).fillColor(COLOUR.ink).text(data.statementOfConformity, MARGIN.left + 14, doc.y + 2, { width: CONTENT_WIDTH - 24, lineGap: 1 });
-  doc.x = MARGIN.left;
-  doc.y = y + h;
+  drawDecisionAndStatement(doc, data.decisionRule, colour, head, data.statementOfConformity);
 }

@@ -127,7 +127,7 @@ export const FINE_PRINT = {
 
 export type Doc = PDFKit.PDFDocument;
 
-interface Column {
+export interface Column {
   key: string;
   title: string;
   width: number;
@@ -300,7 +300,8 @@ export function sectionHeading(doc: Doc, title: string, spaceAfterHeading = 40):
   doc.moveDown(0.25);
 }
 
-function drawTitleBlock(doc: Doc, data: CertificateData, qr: Buffer): void {
+/** The QR code (top right), the document's title, its number and a one-line subtitle; returns where the text column is. */
+export function drawTitleHead(doc: Doc, qr: Buffer, title: string, number: string, subtitle: string): { top: number; qrSize: number; textWidth: number } {
   const top = doc.y;
   const qrSize = 84;
   const qrX = PAGE.width - MARGIN.right - qrSize;
@@ -308,10 +309,21 @@ function drawTitleBlock(doc: Doc, data: CertificateData, qr: Buffer): void {
   doc.font("regular").fontSize(6.5).fillColor(COLOUR.muted).text("Scan to verify", qrX, top + qrSize - 2, { width: qrSize, align: "center" });
 
   const textWidth = CONTENT_WIDTH - qrSize - 16;
-  doc.font("semibold").fontSize(22).fillColor(COLOUR.ink).text("Test certificate", MARGIN.left, top, { width: textWidth });
-  doc.font("medium").fontSize(11).fillColor(COLOUR.accent).text(`No. ${data.number}`, { width: textWidth });
+  doc.font("semibold").fontSize(22).fillColor(COLOUR.ink).text(title, MARGIN.left, top, { width: textWidth });
+  doc.font("medium").fontSize(11).fillColor(COLOUR.accent).text(`No. ${number}`, { width: textWidth });
   doc.moveDown(0.3);
-  doc.font("regular").fontSize(8.5).fillColor(COLOUR.muted).text("Measured partial frequencies and decay of a tuned metal item", { width: textWidth });
+  doc.font("regular").fontSize(8.5).fillColor(COLOUR.muted).text(subtitle, { width: textWidth });
+  return { top, qrSize, textWidth };
+}
+
+/** The verification address and code, right-aligned under the title. */
+export function drawVerifyLine(doc: Doc, data: Pick<CertificateData, "verifyUrl" | "verificationCode">): void {
+  doc.font("regular").fontSize(7.5).fillColor(COLOUR.muted).text(`Verify at ${data.verifyUrl} \u00B7 code ${data.verificationCode}`, MARGIN.left, doc.y, { width: CONTENT_WIDTH, align: "right", link: data.verifyUrl });
+  doc.moveDown(0.4);
+}
+
+function drawTitleBlock(doc: Doc, data: CertificateData, qr: Buffer): void {
+  const { top, qrSize, textWidth } = drawTitleHead(doc, qr, "Test certificate", data.number, "Measured partial frequencies and decay of a tuned metal item");
   doc.moveDown(0.5);
 
   // Verdict badge.
@@ -328,9 +340,7 @@ function drawTitleBlock(doc: Doc, data: CertificateData, qr: Buffer): void {
   });
   doc.y = Math.max(badgeY + 28, top + qrSize + 10);
   doc.x = MARGIN.left;
-
-  doc.font("regular").fontSize(7.5).fillColor(COLOUR.muted).text(`Verify at ${data.verifyUrl} \u00B7 code ${data.verificationCode}`, MARGIN.left, doc.y, { width: CONTENT_WIDTH, align: "right", link: data.verifyUrl });
-  doc.moveDown(0.4);
+  drawVerifyLine(doc, data);
 
   if (data.withdrawn) drawWithdrawnNotice(doc, data.withdrawn);
   if (data.superseded) {
@@ -388,6 +398,12 @@ function drawParticulars(doc: Doc, data: CertificateData): void {
     ["Strikes combined", `${c.strikes} (median of the strikes)`],
     ["Place of measurement", c.location ?? "at the issuing workshop"],
   ];
+  drawParticularColumns(doc, left, right);
+  drawMethod(doc, data.method);
+}
+
+/** The "Particulars" section: label/value pairs in two columns. */
+export function drawParticularColumns(doc: Doc, left: [string, string][], right: [string, string][]): void {
   sectionHeading(doc, "Particulars", 150);
   const colW = (CONTENT_WIDTH - 24) / 2;
   const top = doc.y;
@@ -395,13 +411,15 @@ function drawParticulars(doc: Doc, data: CertificateData): void {
   const rightEnd = labelledColumn(doc, right, MARGIN.left + colW + 24, top, colW);
   doc.x = MARGIN.left;
   doc.y = Math.max(leftEnd, rightEnd);
-
-  sectionHeading(doc, "Method", 40);
-  doc.font("medium").fontSize(9).fillColor(COLOUR.ink).text(`${data.method.name}, analyser version ${data.method.analyserVersion}`, MARGIN.left, doc.y, { width: CONTENT_WIDTH });
-  doc.font("regular").fontSize(8.5).fillColor(COLOUR.ink).text(data.method.summary, { width: CONTENT_WIDTH, lineGap: 1 });
 }
 
-export function labelledColumn(doc: Doc, rows: [string, string][], x: number, y: number, width: number): number {
+export function drawMethod(doc: Doc, method: CertificateData["method"]): void {
+  sectionHeading(doc, "Method", 40);
+  doc.font("medium").fontSize(9).fillColor(COLOUR.ink).text(`${method.name}, analyser version ${method.analyserVersion}`, MARGIN.left, doc.y, { width: CONTENT_WIDTH });
+  doc.font("regular").fontSize(8.5).fillColor(COLOUR.ink).text(method.summary, { width: CONTENT_WIDTH, lineGap: 1 });
+}
+
+function labelledColumn(doc: Doc, rows: [string, string][], x: number, y: number, width: number): number {
   const labelW = 92;
   for (const [label, value] of rows) {
     doc.font("regular").fontSize(7.5).fillColor(COLOUR.muted).text(label, x, y + 1, { width: labelW });
@@ -412,13 +430,18 @@ export function labelledColumn(doc: Doc, rows: [string, string][], x: number, y:
 }
 
 function drawTableHeader(doc: Doc): void {
+  drawColumnHeader(doc, COLUMNS);
+}
+
+/** A results table's header row, the column titles on the soft accent. */
+export function drawColumnHeader(doc: Doc, columns: Column[]): void {
   const y = doc.y;
   doc.font("medium").fontSize(7.5);
-  const h = Math.max(...COLUMNS.map((c) => doc.heightOfString(c.title, { width: c.width - 6 }))) + 8;
+  const h = Math.max(...columns.map((c) => doc.heightOfString(c.title, { width: c.width - 6 }))) + 8;
   doc.rect(MARGIN.left, y, CONTENT_WIDTH, h).fillColor(COLOUR.accentSoft).fill();
   let x = MARGIN.left;
   doc.fillColor(COLOUR.ink);
-  for (const col of COLUMNS) {
+  for (const col of columns) {
     doc.text(col.title, x + 3, y + 4, { width: col.width - 6, align: col.align });
     x += col.width;
   }
@@ -466,23 +489,27 @@ function drawResults(doc: Doc, data: CertificateData): void {
 }
 
 function drawConformity(doc: Doc, data: CertificateData): void {
-  sectionHeading(doc, "Decision rule", 30);
-  doc.font("regular").fontSize(8.5).fillColor(COLOUR.ink).text(decisionRuleWords[data.decisionRule], MARGIN.left, doc.y, { width: CONTENT_WIDTH, lineGap: 1 });
-
-  sectionHeading(doc, "Statement of conformity", 50);
-  const colour = VERDICT_COLOUR[data.verdict];
-  doc.font("semibold").fontSize(10);
   // A concession's departures and reason are part of the signed statement itself.
   const head = data.concession ? `${verdictWords[data.verdict]} \u2014 released as it is under a concession` : verdictWords[data.verdict];
+  drawDecisionAndStatement(doc, data.decisionRule, VERDICT_COLOUR[data.verdict], head, data.statementOfConformity);
+}
+
+/** The decision rule in words, then the statement of conformity in a box with a coloured edge. */
+export function drawDecisionAndStatement(doc: Doc, rule: CertificateData["decisionRule"], colour: string, head: string, statement: string): void {
+  sectionHeading(doc, "Decision rule", 30);
+  doc.font("regular").fontSize(8.5).fillColor(COLOUR.ink).text(decisionRuleWords[rule], MARGIN.left, doc.y, { width: CONTENT_WIDTH, lineGap: 1 });
+
+  sectionHeading(doc, "Statement of conformity", 50);
+  doc.font("semibold").fontSize(10);
   doc.font("regular").fontSize(9);
-  const bodyH = doc.heightOfString(data.statementOfConformity, { width: CONTENT_WIDTH - 24, lineGap: 1 });
+  const bodyH = doc.heightOfString(statement, { width: CONTENT_WIDTH - 24, lineGap: 1 });
   const h = bodyH + 34;
   ensureSpace(doc, h);
   const y = doc.y;
   doc.rect(MARGIN.left, y, 3, h).fillColor(colour).fill();
   doc.rect(MARGIN.left + 3, y, CONTENT_WIDTH - 3, h).fillColor(COLOUR.zebra).fill();
   doc.font("semibold").fontSize(10).fillColor(colour).text(head, MARGIN.left + 14, y + 8, { width: CONTENT_WIDTH - 24 });
-  doc.font("regular").fontSize(9).fillColor(COLOUR.ink).text(data.statementOfConformity, MARGIN.left + 14, doc.y + 2, { width: CONTENT_WIDTH - 24, lineGap: 1 });
+  doc.font("regular").fontSize(9).fillColor(COLOUR.ink).text(statement, MARGIN.left + 14, doc.y + 2, { width: CONTENT_WIDTH - 24, lineGap: 1 });
   doc.x = MARGIN.left;
   doc.y = y + h;
 }

@@ -5,27 +5,27 @@
  */
 import { randomUUID } from "node:crypto";
 import { and, asc, desc, eq, inArray } from "drizzle-orm";
-import { batchStatementOfConformity, type BatchCertificateData, type IssueBatchCertificateInput } from "../../shared/schemas/batch-certificate.ts";
+import { batchStatementOfConformity, type BatchCertificateData, type BatchCertificateSummary, type IssueBatchCertificateInput } from "../../shared/schemas/batch-certificate.ts";
 import { familyLabels, type Family } from "../../shared/schemas/spec.ts";
 import { roleLabels } from "../../shared/permissions.ts";
 import { renderBatchCertificatePdf } from "../certificates/batch-pdf.ts";
-import { canonicalize, newVerificationCode, sha256Hex, signCertificate } from "../certificates/signing.ts";
 import type { Db } from "../db/client.ts";
 import { batchCertificate, certificate, unit } from "../db/schema.ts";
 import { conflict, HttpError } from "../http-error.ts";
 import { audit } from "./audit.ts";
 import { findBatch } from "./batches.ts";
 import { certifiability } from "./certification.ts";
-import { nextNumber, pdfKeyOf, storeWithRow, withdrawalsOf, withWorkshopNumbering } from "./certificate-store.ts";
+import { withdrawalsOf } from "./certificate-store.ts";
 import {
   issueCertificate,
-  latestMails,
+  issueSigned,
   measurementOnlyCaution,
   METHOD_SUMMARY,
   profileOf,
   resultLines,
   sendCertificateMail,
   strikeFacts,
+  summaryBases,
   supportsInWords,
   type CertificateDeps,
   type Issuer,
@@ -156,46 +156,14 @@ function buildBatchData(deps: CertificateDeps, actor: Issuer, batchId: string, i
   return data;
 }
 
-export type BatchCertificateSummary = {
-  id: string;
-  number: string;
-  issuedAt: string;
-  recipientEmail: string;
-  recipientName: string | null;
-  units: number;
-  concessions: number;
-  excluded: number;
-  verifyUrl: string;
-  pdfSha256: string;
-  state: "current" | "withdrawn";
-  withdrawn: { at: string; reason: string; by: string | null } | null;
-  mail: MailSummary | null;
-};
-
 export function listBatchCertificates(db: Db, workshopId: string, batchId: string, baseUrl: string): BatchCertificateSummary[] {
   const b = findBatch(db, workshopId, batchId);
   const rows = db.select().from(batchCertificate).where(and(eq(batchCertificate.workshopId, workshopId), eq(batchCertificate.batchId, b.id))).orderBy(desc(batchCertificate.issuedAt)).all();
-  const ids = rows.map((r) => r.id);
-  const withdrawals = withdrawalsOf(db, ids);
-  const mails = latestMails(db, ids);
+  const bases = summaryBases(db, rows, baseUrl);
   return rows.map((r) => {
     const data = JSON.parse(r.canonical) as BatchCertificateData;
-    const w = withdrawals.get(r.id);
-    return {
-      id: r.id,
-      number: r.number,
-      issuedAt: r.issuedAt.toISOString(),
-      recipientEmail: r.recipientEmail,
-      recipientName: r.recipientName,
-      units: data.units.length,
-      concessions: data.units.filter((u) => u.concession).length,
-      excluded: data.excluded.length,
-      verifyUrl: `${baseUrl}/verify/${r.verificationCode}`,
-      pdfSha256: r.pdfSha256,
-      state: w ? "withdrawn" : "current",
-      withdrawn: w ? { at: w.at.toISOString(), reason: w.reason, by: w.by?.name ?? null } : null,
-      mail: mails.get(r.id) ?? null,
-    };
+    const base = bases.get(r.id)!;
+    return { ...base, units: data.units.length, concessions: data.units.filter((u) => u.concession).length, excluded: data.excluded.length, state: base.withdrawn ? "withdrawn" : "current" };
   });
 }
 
@@ -205,23 +173,21 @@ export async function issueBatchCertificate(deps: CertificateDeps, actor: Issuer
   const b = findBatch(db, actor.workshopId, batchId);
   const w = profileOf(db, actor.workshopId);
   const id = randomUUID();
-  await withWorkshopNumbering(actor.workshopId, async () => {
-    const issuedAt = new Date();
-    const number = nextNumber(db, actor.workshopId, w.prefix, issuedAt);
-    const code = newVerificationCode();
-    const data = buildBatchData(deps, actor, b.id, input, { number, code, issuedAt });
-    const pdf = await renderBatchCertificatePdf(data);
-    const pdfSha256 = sha256Hex(pdf);
-    const canonical = canonicalize(data);
-    const signature = signCertificate(canonical, deps.key);
-    const key = pdfKeyOf(actor.workshopId, id);
-    storeWithRow(db, deps.dataDir, key, pdf, number, (tx) => {
+  await issueSigned(
+    deps,
+    actor.workshopId,
+    w.prefix,
+    id,
+    (ident) => buildBatchData(deps, actor, b.id, input, ident),
+    renderBatchCertificatePdf,
+    (data) => data,
+    (tx, data, s) => {
       tx.insert(batchCertificate)
-        .values({ id, workshopId: actor.workshopId, batchId: b.id, number, verificationCode: code, recipientEmail: input.recipientEmail, recipientName: input.recipientName ?? null, issuedBy: actor.userId, issuedAt, canonical, signature, pdfSha256, pdfKey: key })
+        .values({ id, workshopId: actor.workshopId, batchId: b.id, number: s.number, verificationCode: s.code, recipientEmail: input.recipientEmail, recipientName: input.recipientName ?? null, issuedBy: actor.userId, issuedAt: s.issuedAt, canonical: s.canonical, signature: s.signature, pdfSha256: s.pdfSha256, pdfKey: s.pdfKey })
         .run();
-      audit(tx, actor, "batch.certificate.issue", "batch", b.id, { after: { certificateId: id, number, units: data.units.length, concessions: data.units.filter((u) => u.concession).length, excluded: data.excluded.length, pdfSha256 } });
-    });
-  });
+      audit(tx, actor, "batch.certificate.issue", "batch", b.id, { after: { certificateId: id, number: s.number, units: data.units.length, concessions: data.units.filter((u) => u.concession).length, excluded: data.excluded.length, pdfSha256: s.pdfSha256 } });
+    },
+  );
   await sendCertificateMail(deps, { kind: "batch", row: db.select().from(batchCertificate).where(eq(batchCertificate.id, id)).get()! });
   return listBatchCertificates(db, actor.workshopId, b.id, deps.baseUrl).find((c) => c.id === id)!;
 }

@@ -17,7 +17,10 @@ import {
   needsMeasurementOnlyCaution,
   verdictWords,
   type CertificateData,
+  type CertificateMailSummary,
   type CertificateResult,
+  type CertificateSummary,
+  type CertificateSummaryBase,
   type IssueCertificateInput,
 } from "../../shared/schemas/certificate.ts";
 import { familyLabels, supportLabels, type Family, type Support } from "../../shared/schemas/spec.ts";
@@ -45,25 +48,7 @@ export const METHOD_SUMMARY =
 /** Re-sends of one certificate's e-mail allowed per hour: enough for a lost mail, not a mail bomb. */
 export const RESEND_LIMIT_PER_HOUR = 5;
 
-export type CertificateState = "current" | "superseded" | "withdrawn";
-export type MailSummary = { id: string; state: "sending" | "sent" | "failed"; error: string | null; attempts: number };
-
-export type CertificateSummary = {
-  id: string;
-  number: string;
-  issuedAt: string;
-  recipientEmail: string;
-  recipientName: string | null;
-  verdict: CertificateData["verdict"];
-  concession: boolean;
-  verifyUrl: string;
-  pdfSha256: string;
-  amends: string | null;
-  supersededBy: string | null;
-  state: CertificateState;
-  withdrawn: { at: string; reason: string; by: string | null } | null;
-  mail: MailSummary | null;
-};
+export type MailSummary = CertificateMailSummary;
 
 export function profileOf(db: Db, workshopId: string) {
   const w = db.select().from(organization).where(eq(organization.id, workshopId)).get()!;
@@ -177,26 +162,53 @@ export async function issueCertificate(deps: CertificateDeps, actor: Issuer, uni
   }
   const w = profileOf(db, actor.workshopId);
   const id = randomUUID();
-  await withWorkshopNumbering(actor.workshopId, async () => {
-    const issuedAt = new Date();
-    const number = nextNumber(db, actor.workshopId, w.prefix, issuedAt);
-    const code = newVerificationCode();
-    const { data, evaluation } = buildData(deps, actor, unitId, input, { number, code, issuedAt, amends: amended ? { number: amended.number, reason: input.amendReason! } : null });
-    const pdf = await renderCertificatePdf(data);
-    const pdfSha256 = sha256Hex(pdf);
-    const canonical = canonicalize(data);
-    const signature = signCertificate(canonical, deps.key);
-    const key = pdfKeyOf(actor.workshopId, id);
-    storeWithRow(db, deps.dataDir, key, pdf, number, (tx) => {
+  await issueSigned(
+    deps,
+    actor.workshopId,
+    w.prefix,
+    id,
+    (ident) => buildData(deps, actor, unitId, input, { ...ident, amends: amended ? { number: amended.number, reason: input.amendReason! } : null }),
+    ({ data }) => renderCertificatePdf(data),
+    ({ data }) => data,
+    (tx, { data, evaluation }, s) => {
       tx.insert(certificate)
-        .values({ id, workshopId: actor.workshopId, unitId, evaluationId: evaluation.id, number, verificationCode: code, recipientEmail: input.recipientEmail, recipientName: input.recipientName ?? null, issuedBy: actor.userId, issuedAt, canonical, signature, pdfSha256, pdfKey: key, amendsId: amended?.id ?? null, amendReason: input.amendReason ?? null })
+        .values({ id, workshopId: actor.workshopId, unitId, evaluationId: evaluation.id, number: s.number, verificationCode: s.code, recipientEmail: input.recipientEmail, recipientName: input.recipientName ?? null, issuedBy: actor.userId, issuedAt: s.issuedAt, canonical: s.canonical, signature: s.signature, pdfSha256: s.pdfSha256, pdfKey: s.pdfKey, amendsId: amended?.id ?? null, amendReason: input.amendReason ?? null })
         .run();
       if (amended) tx.update(certificate).set({ supersededById: id }).where(eq(certificate.id, amended.id)).run();
-      audit(tx, actor, amended ? "certificate.amend" : "certificate.issue", "certificate", id, { after: { number, unitId, verdict: data.verdict, concession: Boolean(data.concession), pdfSha256, amends: amended?.number ?? null } });
-    });
-  });
+      audit(tx, actor, amended ? "certificate.amend" : "certificate.issue", "certificate", id, { after: { number: s.number, unitId, verdict: data.verdict, concession: Boolean(data.concession), pdfSha256: s.pdfSha256, amends: amended?.number ?? null } });
+    },
+  );
   await sendCertificateMail(deps, { kind: "unit", row: db.select().from(certificate).where(eq(certificate.id, id)).get()! });
   return listCertificates(db, actor.workshopId, unitId, deps.baseUrl).find((c) => c.id === id)!;
+}
+
+export type Signed = { number: string; code: string; issuedAt: Date; canonical: string; signature: string; pdfSha256: string; pdfKey: string };
+
+/**
+ * The issuing steps every certificate shares: under the workshop's numbering lock, the next number
+ * and a verification code; the data built and rendered; the signed data (exactly what the PDF
+ * shows) and the PDF's hash; then row and file stored together.
+ */
+export async function issueSigned<B>(
+  deps: CertificateDeps,
+  workshopId: string,
+  prefix: string,
+  id: string,
+  build: (ident: { number: string; code: string; issuedAt: Date }) => B,
+  render: (built: B) => Promise<Buffer>,
+  signed: (built: B) => unknown,
+  insert: (tx: Db, built: B, s: Signed) => void,
+): Promise<void> {
+  await withWorkshopNumbering(workshopId, async () => {
+    const issuedAt = new Date();
+    const number = nextNumber(deps.db, workshopId, prefix, issuedAt);
+    const code = newVerificationCode();
+    const built = build({ number, code, issuedAt });
+    const pdf = await render(built);
+    const canonical = canonicalize(signed(built));
+    const s: Signed = { number, code, issuedAt, canonical, signature: signCertificate(canonical, deps.key), pdfSha256: sha256Hex(pdf), pdfKey: pdfKeyOf(workshopId, id) };
+    storeWithRow(deps.db, deps.dataDir, s.pdfKey, pdf, number, (tx) => insert(tx, built, s));
+  });
 }
 
 const esc = (s: string) => s.replace(/[&<>"]/g, (ch) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;" })[ch]!);
@@ -286,7 +298,7 @@ async function sendWithdrawalNotice(deps: CertificateDeps, c: AnyCertificate, re
 const mailSummary = (m: typeof mailMessage.$inferSelect | undefined): MailSummary | null => (m ? { id: m.id, state: m.state, error: m.error, attempts: m.attempts } : null);
 
 /** The latest certificate e-mail of each certificate id. */
-export function latestMails(db: Db, ids: string[]) {
+function latestMails(db: Db, ids: string[]) {
   const out = new Map<string, MailSummary>();
   if (!ids.length) return out;
   const rows = db.select().from(mailMessage).where(and(inArray(mailMessage.relatedId, ids), eq(mailMessage.kind, "certificate"))).orderBy(asc(mailMessage.createdAt)).all();
@@ -294,30 +306,48 @@ export function latestMails(db: Db, ids: string[]) {
   return out;
 }
 
-export function listCertificates(db: Db, workshopId: string, unitId: string, baseUrl: string): CertificateSummary[] {
-  const rows = db.select().from(certificate).where(and(eq(certificate.workshopId, workshopId), eq(certificate.unitId, unitId))).orderBy(desc(certificate.issuedAt)).all();
-  const byId = new Map(rows.map((r) => [r.id, r]));
+type StoredCertificate = { id: string; number: string; issuedAt: Date; recipientEmail: string; recipientName: string | null; verificationCode: string; pdfSha256: string };
+
+/** What every certificate list shows of each row (unit or batch certificate): its withdrawal and latest e-mail looked up once. */
+export function summaryBases(db: Db, rows: StoredCertificate[], baseUrl: string): Map<string, CertificateSummaryBase> {
   const ids = rows.map((r) => r.id);
   const withdrawals = withdrawalsOf(db, ids);
   const mails = latestMails(db, ids);
+  return new Map(
+    rows.map((r) => {
+      const w = withdrawals.get(r.id);
+      return [
+        r.id,
+        {
+          id: r.id,
+          number: r.number,
+          issuedAt: r.issuedAt.toISOString(),
+          recipientEmail: r.recipientEmail,
+          recipientName: r.recipientName,
+          verifyUrl: `${baseUrl}/verify/${r.verificationCode}`,
+          pdfSha256: r.pdfSha256,
+          withdrawn: w ? { at: w.at.toISOString(), reason: w.reason, by: w.by?.name ?? null } : null,
+          mail: mails.get(r.id) ?? null,
+        },
+      ];
+    }),
+  );
+}
+
+export function listCertificates(db: Db, workshopId: string, unitId: string, baseUrl: string): CertificateSummary[] {
+  const rows = db.select().from(certificate).where(and(eq(certificate.workshopId, workshopId), eq(certificate.unitId, unitId))).orderBy(desc(certificate.issuedAt)).all();
+  const byId = new Map(rows.map((r) => [r.id, r]));
+  const bases = summaryBases(db, rows, baseUrl);
   return rows.map((r) => {
     const data = JSON.parse(r.canonical) as CertificateData;
-    const w = withdrawals.get(r.id);
+    const base = bases.get(r.id)!;
     return {
-      id: r.id,
-      number: r.number,
-      issuedAt: r.issuedAt.toISOString(),
-      recipientEmail: r.recipientEmail,
-      recipientName: r.recipientName,
+      ...base,
       verdict: data.verdict,
       concession: Boolean(data.concession),
-      verifyUrl: `${baseUrl}/verify/${r.verificationCode}`,
-      pdfSha256: r.pdfSha256,
       amends: r.amendsId ? byId.get(r.amendsId)?.number ?? null : null,
       supersededBy: r.supersededById ? byId.get(r.supersededById)?.number ?? null : null,
-      state: w ? "withdrawn" : r.supersededById ? "superseded" : "current",
-      withdrawn: w ? { at: w.at.toISOString(), reason: w.reason, by: w.by?.name ?? null } : null,
-      mail: mails.get(r.id) ?? null,
+      state: base.withdrawn ? "withdrawn" : r.supersededById ? "superseded" : "current",
     };
   });
 }
@@ -413,45 +443,41 @@ export function verifyByCode(deps: CertificateDeps, code: string) {
     pdfIntact,
     withdrawn: w ? { at: w.at.toISOString(), reason: w.reason } : null,
   };
+  /** What both kinds state, from their signed data; the signature must also cover this row's number and code. */
+  const stated = (data: CertificateData | BatchCertificateData) => ({
+    signatureValid: signatureValid && data.number === c.row.number && data.verificationCode === c.row.verificationCode,
+    workshop: data.workshop.name,
+    product: `${data.product.specName} (version ${data.product.specVersion})`,
+    family: data.product.family,
+    measuredFrom: data.measuredFrom,
+    measuredTo: data.measuredTo,
+    issuedAt: data.issuedAt,
+    decisionRule: data.decisionRule,
+    statementOfConformity: data.statementOfConformity,
+    authorisedBy: data.authorisedBy,
+  });
+  const line = (r: CertificateResult) => ({ label: r.label, measuredHz: r.measuredHz, expandedUncertaintyHz: r.expandedUncertaintyHz, deviationCents: r.deviationCents, toleranceCents: r.toleranceCents, result: r.result });
   if (c.kind === "batch") {
     const data = JSON.parse(c.row.canonical) as BatchCertificateData;
     return {
       ...common,
+      ...stated(data),
       kind: "batch" as const,
-      signatureValid: signatureValid && data.number === c.row.number && data.verificationCode === c.row.verificationCode,
-      workshop: data.workshop.name,
       batch: data.batch.code,
-      product: `${data.product.specName} (version ${data.product.specVersion})`,
-      family: data.product.family,
-      measuredFrom: data.measuredFrom,
-      measuredTo: data.measuredTo,
-      issuedAt: data.issuedAt,
-      decisionRule: data.decisionRule,
-      statementOfConformity: data.statementOfConformity,
-      units: data.units.map((u) => ({ serial: u.serial, verdict: u.verdict, concession: u.concession, results: u.results.map((r) => ({ label: r.label, measuredHz: r.measuredHz, expandedUncertaintyHz: r.expandedUncertaintyHz, deviationCents: r.deviationCents, toleranceCents: r.toleranceCents, result: r.result })) })),
+      units: data.units.map((u) => ({ serial: u.serial, verdict: u.verdict, concession: u.concession, results: u.results.map(line) })),
       excluded: data.excluded,
-      authorisedBy: data.authorisedBy,
     };
   }
   const data = JSON.parse(c.row.canonical) as CertificateData;
   const by = c.row.supersededById ? deps.db.select({ number: certificate.number }).from(certificate).where(eq(certificate.id, c.row.supersededById)).get() : undefined;
   return {
     ...common,
+    ...stated(data),
     kind: "unit" as const,
-    signatureValid: signatureValid && data.number === c.row.number && data.verificationCode === c.row.verificationCode,
-    workshop: data.workshop.name,
     unit: data.unit.serial,
-    product: `${data.product.specName} (version ${data.product.specVersion})`,
-    family: data.product.family,
-    measuredFrom: data.measuredFrom,
-    measuredTo: data.measuredTo,
-    issuedAt: data.issuedAt,
     verdict: data.verdict,
-    decisionRule: data.decisionRule,
-    statementOfConformity: data.statementOfConformity,
     concession: data.concession ?? null,
-    results: data.results.map((r) => ({ label: r.label, measuredHz: r.measuredHz, expandedUncertaintyHz: r.expandedUncertaintyHz, deviationCents: r.deviationCents, toleranceCents: r.toleranceCents, result: r.result })),
-    authorisedBy: data.authorisedBy,
+    results: data.results.map(line),
     amends: data.amends,
     superseded: Boolean(c.row.supersededById),
     supersededBy: by?.number ?? null,

@@ -4,7 +4,7 @@
  * released under a concession with what they depart from, and the units it does not cover.
  */
 import { z } from "zod";
-import { certificateDataSchema, certificateResultSchema, concessionSchema, verdictSchema, withdrawnMarkSchema } from "./certificate.ts";
+import { certificateDataSchema, certificateResultSchema, concessionSchema, verdictSchema, withdrawnMarkSchema, type CertificateSummaryBase } from "./certificate.ts";
 
 /** Body of `POST /api/batches/:id/certificates`. */
 export const issueBatchCertificateSchema = z.object({
@@ -78,3 +78,11 @@ export function batchStatementOfConformity(d: Pick<BatchCertificateData, "units"
   if (d.excluded.length > 0) parts.push(`The ${d.excluded.length} unit${d.excluded.length === 1 ? "" : "s"} named under "Not covered" ${d.excluded.length === 1 ? "is" : "are"} not covered by this certificate.`);
   return parts.join(" ");
 }
+
+/** A batch certificate in the batch's list. */
+export type BatchCertificateSummary = CertificateSummaryBase & {
+  units: number;
+  concessions: number;
+  excluded: number;
+  state: "current" | "withdrawn";
+};

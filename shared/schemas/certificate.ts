@@ -194,3 +194,30 @@ export function defaultStatementOfConformity(verdict: Verdict, rule: DecisionRul
       return `No required partial was found outside the tolerance of ${under}, but for at least one the measurement uncertainty does not allow a decision. Conformity can neither be confirmed nor ruled out.`;
   }
 }
+
+/** The state of a certificate's e-mail, as the lists show it. */
+export type CertificateMailSummary = { id: string; state: "sending" | "sent" | "failed"; error: string | null; attempts: number };
+
+/** What every certificate list shows of a certificate, unit or batch. */
+export type CertificateSummaryBase = {
+  id: string;
+  number: string;
+  issuedAt: string;
+  recipientEmail: string;
+  recipientName: string | null;
+  verifyUrl: string;
+  pdfSha256: string;
+  /** When, why and by whom it was withdrawn (the workshop's own lists name the person). */
+  withdrawn: { at: string; reason: string; by: string | null } | null;
+  mail: CertificateMailSummary | null;
+};
+
+/** A unit's certificate in the unit's list. */
+export type CertificateSummary = CertificateSummaryBase & {
+  verdict: Verdict;
+  /** Issued for a unit released under a concession (the certificate states it). */
+  concession: boolean;
+  amends: string | null;
+  supersededBy: string | null;
+  state: "current" | "superseded" | "withdrawn";
+};

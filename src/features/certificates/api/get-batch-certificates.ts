@@ -1,24 +1,10 @@
 /** The batch certificates of one batch (documents for a consignment), newest first. */
 import { queryOptions, useQuery } from "@tanstack/react-query";
 import { api } from "@/lib/api-client";
-import type { CertificateMail } from "./get-certificates";
+import type { BatchCertificateSummary } from "@shared/schemas/batch-certificate";
 import { batchCertificatesKey } from "./get-unit-certificate-plan";
 
-export type BatchCertificateItem = {
-  id: string;
-  number: string;
-  issuedAt: string;
-  recipientEmail: string;
-  recipientName: string | null;
-  units: number;
-  concessions: number;
-  excluded: number;
-  verifyUrl: string;
-  pdfSha256: string;
-  state: "current" | "withdrawn";
-  withdrawn: { at: string; reason: string; by: string | null } | null;
-  mail: CertificateMail | null;
-};
+export type BatchCertificateItem = BatchCertificateSummary;
 
 export async function getBatchCertificates(batchId: string): Promise<BatchCertificateItem[]> {
   return (await api.get<{ certificates: BatchCertificateItem[] }>(`/api/batches/${encodeURIComponent(batchId)}/certificates`)).certificates;

@@ -14,14 +14,11 @@ import { InputField } from "@/components/ui/field";
 import { Badge, EmptyState } from "@/components/ui/panel";
 import { Spinner } from "@/components/ui/spinner";
 import { applyServerErrors } from "@/lib/form-errors";
-import { formatDateTime } from "@/lib/format";
-import { certificatePdfHref } from "../api/get-certificates";
 import { useBatchCertificates, type BatchCertificateItem } from "../api/get-batch-certificates";
 import { batchCertificatesKey, useUnitCertificatePlan } from "../api/get-unit-certificate-plan";
 import { useIssueBatchCertificate } from "../api/issue-batch-certificate";
 import { useIssueUnitCertificates, type IssueOutcome, type RunLine } from "../api/issue-unit-certificates";
-import { useResendCertificate } from "../api/resend-certificate";
-import { WithdrawForm } from "./withdraw-form";
+import { CertificateActions, IssuedTo, MailState, WithdrawnNote } from "./certificate-row-parts";
 
 type Props = { workshopId: string; batchId: string; batchCode: string; canIssue: boolean; canWithdraw: boolean; unitHref: (id: string) => string };
 
@@ -189,9 +186,6 @@ function BatchCertificates({ workshopId, batchId, batchCode, canIssue, canWithdr
 }
 
 function BatchCertificateRow({ workshopId, batchId, certificate: c, canIssue, canWithdraw }: { workshopId: string; batchId: string; certificate: BatchCertificateItem; canIssue: boolean; canWithdraw: boolean }) {
-  const resend = useResendCertificate(workshopId, batchCertificatesKey(workshopId, batchId));
-  const [withdrawing, setWithdrawing] = useState(false);
-  const link = "inline-flex min-h-9 items-center rounded-control border border-line-strong px-3 text-caption font-medium text-steel-700 hover:bg-steel-50";
   return (
     <li className="flex flex-col gap-2 px-4 py-3">
       <div className="flex flex-wrap items-center gap-2">
@@ -203,36 +197,10 @@ function BatchCertificateRow({ workshopId, batchId, certificate: c, canIssue, ca
           {c.excluded ? `, ${c.excluded} not covered` : ""}
         </span>
       </div>
-      <p className="text-caption text-ink-soft">
-        Issued {formatDateTime(c.issuedAt)} to {c.recipientName ? `${c.recipientName} <${c.recipientEmail}>` : c.recipientEmail} · SHA-256 {c.pdfSha256.slice(0, 16)}… ·{" "}
-        {c.mail?.state === "sent" ? "e-mail sent" : c.mail?.state === "failed" ? `e-mail failed: ${c.mail.error ?? "no reason given"}` : "e-mail sending"}
-      </p>
-      {c.withdrawn ? (
-        <p className="text-caption text-ink">
-          <span className="font-semibold">Withdrawn</span> {formatDateTime(c.withdrawn.at)}
-          {c.withdrawn.by ? ` by ${c.withdrawn.by}` : ""}: {c.withdrawn.reason}
-        </p>
-      ) : null}
-      {resend.isError ? <Alert tone="error">{resend.error.message}</Alert> : null}
-      <div className="flex flex-wrap gap-2">
-        <a href={certificatePdfHref(c.number)} target="_blank" rel="noreferrer" className={link}>
-          PDF
-        </a>
-        <a href={c.verifyUrl} target="_blank" rel="noreferrer" className={link}>
-          Verification page
-        </a>
-        {canIssue && c.state === "current" ? (
-          <Button size="sm" variant="secondary" pending={resend.isPending} onClick={() => resend.mutate(c.number)}>
-            Re-send
-          </Button>
-        ) : null}
-        {canWithdraw && c.state === "current" && !withdrawing ? (
-          <Button size="sm" variant="danger" onClick={() => setWithdrawing(true)}>
-            Withdraw…
-          </Button>
-        ) : null}
-      </div>
-      {withdrawing ? <WithdrawForm workshopId={workshopId} number={c.number} recipient={c.recipientName ?? c.recipientEmail} onDone={() => setWithdrawing(false)} /> : null}
+      <WithdrawnNote withdrawn={c.withdrawn} />
+      <IssuedTo c={c} />
+      <MailState mail={c.mail} />
+      <CertificateActions workshopId={workshopId} listKey={batchCertificatesKey(workshopId, batchId)} c={c} current={c.state === "current"} canIssue={canIssue} canWithdraw={canWithdraw} />
     </li>
   );
 }

@@ -16,12 +16,10 @@ import { Badge, EmptyState } from "@/components/ui/panel";
 import { Spinner } from "@/components/ui/spinner";
 import { isApiError } from "@/lib/api-client";
 import { applyServerErrors } from "@/lib/form-errors";
-import { formatDateTime } from "@/lib/format";
-import { certificatePdfHref, certificatesKey, useCertificates, type CertificateListItem } from "../api/get-certificates";
+import { certificatesKey, useCertificates, type CertificateListItem } from "../api/get-certificates";
 import { useIssueCertificate } from "../api/issue-certificate";
 import { usePreviewCertificate } from "../api/preview-certificate";
-import { useResendCertificate } from "../api/resend-certificate";
-import { WithdrawForm } from "./withdraw-form";
+import { CertificateActions, IssuedTo, MailState, WithdrawnNote } from "./certificate-row-parts";
 
 type Props = {
   workshopId: string;
@@ -240,8 +238,6 @@ function IssueForm({
 type RowProps = { workshopId: string; unitId: string; certificate: CertificateListItem; canIssue: boolean; canWithdraw: boolean; onAmend?: () => void };
 
 function CertificateRow({ workshopId, unitId, certificate: c, canIssue, canWithdraw, onAmend }: RowProps) {
-  const resend = useResendCertificate(workshopId, certificatesKey(workshopId, unitId));
-  const [withdrawing, setWithdrawing] = useState(false);
   return (
     <li className="flex flex-col gap-2 px-4 py-3">
       <div className="flex flex-wrap items-center gap-2">
@@ -251,53 +247,16 @@ function CertificateRow({ workshopId, unitId, certificate: c, canIssue, canWithd
         {c.concession ? <Badge tone="ochre">Concession</Badge> : null}
         {c.amends ? <span className="text-caption text-ink-soft">amends {c.amends}</span> : null}
       </div>
-      {c.withdrawn ? (
-        <p className="text-caption text-ink">
-          <span className="font-semibold">Withdrawn</span> {formatDateTime(c.withdrawn.at)}
-          {c.withdrawn.by ? ` by ${c.withdrawn.by}` : ""}: {c.withdrawn.reason}
-        </p>
-      ) : null}
-      <p className="text-caption text-ink-soft">
-        Issued {formatDateTime(c.issuedAt)} to {c.recipientName ? `${c.recipientName} <${c.recipientEmail}>` : c.recipientEmail} · SHA-256 {c.pdfSha256.slice(0, 16)}…
-      </p>
-      <p className="text-caption">
-        {c.mail === null ? (
-          <span className="text-ink-soft">Not e-mailed.</span>
-        ) : c.mail.state === "sent" ? (
-          <span className="text-moss-600">E-mail sent{c.mail.attempts > 1 ? ` (after ${c.mail.attempts} attempts)` : ""}.</span>
-        ) : c.mail.state === "sending" ? (
-          <span className="text-ink-soft">Sending the e-mail…</span>
-        ) : (
-          <span role="alert" className="font-medium text-rust-700">
-            The e-mail failed: {c.mail.error ?? "no reason given"}. The certificate stays issued; send it again.
-          </span>
-        )}
-      </p>
-      {resend.isError ? <Alert tone="error">{resend.error.message}</Alert> : null}
-      <div className="flex flex-wrap gap-2">
-        <a href={certificatePdfHref(c.number)} target="_blank" rel="noreferrer" className="inline-flex min-h-9 items-center rounded-control border border-line-strong px-3 text-caption font-medium text-steel-700 hover:bg-steel-50">
-          PDF
-        </a>
-        <a href={c.verifyUrl} target="_blank" rel="noreferrer" className="inline-flex min-h-9 items-center rounded-control border border-line-strong px-3 text-caption font-medium text-steel-700 hover:bg-steel-50">
-          Verification page
-        </a>
-        {canIssue && c.state === "current" ? (
-          <Button size="sm" variant="secondary" pending={resend.isPending} onClick={() => resend.mutate(c.number)}>
-            Re-send
-          </Button>
-        ) : null}
+      <WithdrawnNote withdrawn={c.withdrawn} />
+      <IssuedTo c={c} />
+      <MailState mail={c.mail} />
+      <CertificateActions workshopId={workshopId} listKey={certificatesKey(workshopId, unitId)} c={c} current={c.state === "current"} canIssue={canIssue} canWithdraw={canWithdraw}>
         {canIssue && onAmend ? (
           <Button size="sm" variant="quiet" onClick={onAmend}>
             Amend…
           </Button>
         ) : null}
-        {canWithdraw && c.state === "current" && !withdrawing ? (
-          <Button size="sm" variant="danger" onClick={() => setWithdrawing(true)}>
-            Withdraw…
-          </Button>
-        ) : null}
-      </div>
-      {withdrawing ? <WithdrawForm workshopId={workshopId} number={c.number} recipient={c.recipientName ?? c.recipientEmail} onDone={() => setWithdrawing(false)} /> : null}
+      </CertificateActions>
     </li>
   );
 }

@@ -2,20 +2,15 @@
  * The unit's strikes, newest first. A voided strike stays in the list, struck through, with who
  * voided it, when and why; it no longer counts in the evaluation. Voiding asks for a reason.
  */
-import { zodResolver } from "@hookform/resolvers/zod";
 import { useState } from "react";
-import { useForm } from "react-hook-form";
 import { Link } from "react-router";
-import { voidStrikeSchema, type VoidStrikeInput } from "@shared/schemas/corrections";
 import { supportLabels } from "@shared/schemas/spec";
 import type { StrikeSummary, UnitDetail } from "@shared/schemas/strike";
-import { Alert } from "@/components/ui/alert";
 import { Button } from "@/components/ui/button";
-import { TextAreaField } from "@/components/ui/field";
 import { Badge, EmptyState } from "@/components/ui/panel";
+import { ReasonForm } from "@/components/ui/reason-form";
 import { Spinner } from "@/components/ui/spinner";
 import { StrikeStateBadge } from "@/components/ui/status-badges";
-import { applyServerErrors } from "@/lib/form-errors";
 import { formatDateTime, formatHz } from "@/lib/format";
 import { useVoidStrike } from "../api/void-strike";
 
@@ -84,33 +79,18 @@ export function StrikesList({ unit, strikeHref, workshopId, canVoid }: Props) {
 
 function VoidForm({ workshopId, unitId, strike, onDone }: { workshopId: string; unitId: string; strike: StrikeSummary; onDone: () => void }) {
   const mutation = useVoidStrike(workshopId, unitId);
-  const [formError, setFormError] = useState<string | null>(null);
-  const form = useForm<VoidStrikeInput>({ resolver: zodResolver(voidStrikeSchema), defaultValues: { reason: "" } });
-  const onSubmit = form.handleSubmit(async (values) => {
-    setFormError(null);
-    try {
-      await mutation.mutateAsync({ strikeId: strike.id, ...values });
-      onDone();
-    } catch (error) {
-      setFormError(applyServerErrors(error, form.setError, ["reason"]));
-    }
-  });
   return (
-    <form onSubmit={onSubmit} noValidate aria-label={`Void ${strike.originalName}`} className="flex flex-col gap-3 rounded-control border border-rust-300 bg-rust-50/50 p-3">
-      <p className="text-caption text-ink">
-        Voiding keeps the strike in the record, struck through, and evaluates the unit again from the other strikes. It cannot be undone: if the recording does belong to this unit,
-        upload it again.
-      </p>
-      {formError ? <Alert tone="error">{formError}</Alert> : null}
-      <TextAreaField label="Why is this strike void?" rows={2} hint="For example: a recording of another unit, a knock on the bench." error={form.formState.errors.reason?.message} {...form.register("reason")} />
-      <div className="flex flex-wrap gap-2">
-        <Button type="submit" variant="danger" pending={form.formState.isSubmitting}>
-          Void strike
-        </Button>
-        <Button variant="quiet" onClick={onDone}>
-          Cancel
-        </Button>
-      </div>
-    </form>
+    <ReasonForm
+      name={`Void ${strike.originalName}`}
+      warning="Voiding keeps the strike in the record, struck through, and evaluates the unit again from the other strikes. It cannot be undone: if the recording does belong to this unit, upload it again."
+      label="Why is this strike void?"
+      hint="For example: a recording of another unit, a knock on the bench."
+      submitLabel="Void strike"
+      onSubmit={async (reason) => {
+        await mutation.mutateAsync({ strikeId: strike.id, reason });
+        onDone();
+      }}
+      onCancel={onDone}
+    />
   );
 }

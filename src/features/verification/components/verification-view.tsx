@@ -59,8 +59,20 @@ export function VerificationView({ v }: { v: Verification }) {
   );
 }
 
-function measuredRange(v: Verification) {
-  return v.measuredFrom.slice(0, 10) === v.measuredTo.slice(0, 10) ? formatDate(v.measuredFrom) : `${formatDate(v.measuredFrom)} – ${formatDate(v.measuredTo)}`;
+/** When it was measured and issued, and who authorised it (both kinds). */
+function IssueFacts({ v }: { v: Verification }) {
+  return (
+    <>
+      <dt className="text-ink-faint">Measured</dt>
+      <dd>{v.measuredFrom.slice(0, 10) === v.measuredTo.slice(0, 10) ? formatDate(v.measuredFrom) : `${formatDate(v.measuredFrom)} – ${formatDate(v.measuredTo)}`}</dd>
+      <dt className="text-ink-faint">Issued</dt>
+      <dd>{formatDateTime(v.issuedAt)}</dd>
+      <dt className="text-ink-faint">Authorised by</dt>
+      <dd>
+        {v.authorisedBy.name} ({v.authorisedBy.role})
+      </dd>
+    </>
+  );
 }
 
 function ResultLines({ results }: { results: UnitVerification["results"] }) {
@@ -108,14 +120,7 @@ function UnitBody({ v }: { v: UnitVerification }) {
         <dd className="font-semibold break-all">{v.unit}</dd>
         <dt className="text-ink-faint">Product</dt>
         <dd>{v.product}</dd>
-        <dt className="text-ink-faint">Measured</dt>
-        <dd>{measuredRange(v)}</dd>
-        <dt className="text-ink-faint">Issued</dt>
-        <dd>{formatDateTime(v.issuedAt)}</dd>
-        <dt className="text-ink-faint">Authorised by</dt>
-        <dd>
-          {v.authorisedBy.name} ({v.authorisedBy.role})
-        </dd>
+        <IssueFacts v={v} />
         <dt className="text-ink-faint">Verdict</dt>
         <dd className={clsx("font-semibold", verdictColour(v.verdict))}>
           {verdictWords[v.verdict]}
@@ -151,14 +156,7 @@ function BatchBody({ v }: { v: BatchVerification }) {
           {conceded ? `, ${conceded} under a concession` : ""}
           {v.excluded.length ? `; ${v.excluded.length} not covered` : ""}
         </dd>
-        <dt className="text-ink-faint">Measured</dt>
-        <dd>{measuredRange(v)}</dd>
-        <dt className="text-ink-faint">Issued</dt>
-        <dd>{formatDateTime(v.issuedAt)}</dd>
-        <dt className="text-ink-faint">Authorised by</dt>
-        <dd>
-          {v.authorisedBy.name} ({v.authorisedBy.role})
-        </dd>
+        <IssueFacts v={v} />
       </dl>
       <p className="text-ink">{v.statementOfConformity}</p>
 
