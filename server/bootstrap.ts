@@ -13,6 +13,7 @@ import { createInProcessQueue } from "./services/analysis-queue.ts";
 import { createRedisQueue } from "./services/redis-queue.ts";
 import { createReadCache } from "./services/read-cache.ts";
 import { createStorage } from "./services/storage.ts";
+import { sweepCertificateParts } from "./services/certificate-store.ts";
 import { createAnalysisPool } from "./workers/analysis-pool.ts";
 import { availableParallelism } from "node:os";
 import path from "node:path";
@@ -30,6 +31,7 @@ export async function bootstrap(env: Env, logger: Logger = createLogger(env.LOG_
   const auth = createAuth({ db, env, mailer });
   const storage = createStorage(env.DATA_DIR, { quotaBytes: env.WORKSHOP_QUOTA_MB * 1024 * 1024, minFreeBytes: env.MIN_FREE_DISK_MB * 1024 * 1024 });
   storage.sweepIncoming();
+  sweepCertificateParts(env.DATA_DIR);
   const reconciled = storage.reconcile(db);
   if (reconciled.orphanFiles || reconciled.missingFiles) logger.warn(reconciled, "reconciled stored recordings with their rows after an unclean stop");
   // One analysis thread per spare core: the event loop keeps a core for HTTP.

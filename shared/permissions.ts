@@ -9,13 +9,15 @@ import { defaultStatements } from "better-auth/plugins/organization/access";
 export const statement = {
   ...defaultStatements,
   workshop: ["read", "update"],
-  mail: ["read"],
+  /** "read": every mail of the workshop; "read-certificates": the certificate mails only. */
+  mail: ["read", "read-certificates"],
   spec: ["read", "write"],
   batch: ["read", "create", "release"],
   unit: ["read", "create"],
-  strike: ["read", "create"],
-  disposition: ["create"],
-  certificate: ["read", "issue"],
+  /** "void": take one's own strike out of the record; "void-others": anyone's. */
+  strike: ["read", "create", "void", "void-others"],
+  disposition: ["create", "supersede"],
+  certificate: ["read", "issue", "withdraw"],
   audit: ["read"],
 } as const;
 
@@ -28,7 +30,7 @@ const makerGrants = {
   spec: ["read"],
   batch: ["read", "create"],
   unit: ["read", "create"],
-  strike: ["read", "create"],
+  strike: ["read", "create", "void"],
   certificate: ["read"],
 } satisfies Grants;
 
@@ -36,15 +38,17 @@ const qaGrants = {
   ...makerGrants,
   spec: ["read", "write"],
   batch: ["read", "create", "release"],
-  disposition: ["create"],
-  certificate: ["read", "issue"],
+  strike: ["read", "create", "void", "void-others"],
+  disposition: ["create", "supersede"],
+  certificate: ["read", "issue", "withdraw"],
+  mail: ["read-certificates"],
   audit: ["read"],
 } satisfies Grants;
 
 const ownerGrants = {
   ...qaGrants,
   workshop: ["read", "update"],
-  mail: ["read"],
+  mail: ["read", "read-certificates"],
   // No "delete": a workshop holds a quality record that must be kept.
   organization: ["update"],
   member: ["create", "update", "delete"],

@@ -28,7 +28,7 @@ const FONTS = {
 };
 
 /** Tinelog's certificate palette: slate ink, a deep teal accent, and muted signal colours. */
-const COLOUR = {
+export const COLOUR = {
   ink: "#1E2A32",
   muted: "#5B6B73",
   accent: "#2F6F6A",
@@ -41,10 +41,10 @@ const COLOUR = {
   amendSoft: "#F6F1E4",
 };
 
-const PAGE = { width: 595.28, height: 841.89 }; // A4 in points
-const MARGIN = { left: 48, right: 48, top: 70, bottom: 62 };
-const CONTENT_WIDTH = PAGE.width - MARGIN.left - MARGIN.right;
-const BOTTOM = PAGE.height - MARGIN.bottom;
+export const PAGE = { width: 595.28, height: 841.89 }; // A4 in points
+export const MARGIN = { left: 48, right: 48, top: 70, bottom: 62 };
+export const CONTENT_WIDTH = PAGE.width - MARGIN.left - MARGIN.right;
+export const BOTTOM = PAGE.height - MARGIN.bottom;
 
 /** Thrown when the data cannot make a certificate; lists what is wrong. */
 export class CertificateRenderError extends Error {
@@ -68,7 +68,7 @@ export function formatDateUtc(iso: string): string {
 }
 
 const MINUS = "\u2212";
-function signed(value: number, decimals: number): string {
+export function signed(value: number, decimals: number): string {
   const s = Math.abs(value).toFixed(decimals);
   if (Number(s) === 0) return s;
   return value < 0 ? `${MINUS}${s}` : `+${s}`;
@@ -84,7 +84,7 @@ export function formatWithUncertainty(value: number, u: number): { value: string
   return { value: value.toFixed(decimals), u: u.toFixed(decimals) };
 }
 
-function trimNumber(value: number, maxDecimals: number): string {
+export function trimNumber(value: number, maxDecimals: number): string {
   return Number(value.toFixed(maxDecimals)).toString();
 }
 
@@ -99,17 +99,17 @@ const SUPPORT_WORDS: Record<string, string> = {
   stand_or_resonator: "on a stand or resonator",
   other: "other (see workshop records)",
 };
-function supportWords(support: string): string {
+export function supportWords(support: string): string {
   return SUPPORT_WORDS[support] ?? support.replace(/_/g, " ");
 }
 
-function familyWords(family: string): string {
+export function familyWords(family: string): string {
   return family.replace(/_/g, " ");
 }
 
-const RESULT_WORDS: Record<LineResult, string> = { pass: "Pass", fail: "Fail", inconclusive: "Inconclusive" };
-const RESULT_COLOUR: Record<LineResult, string> = { pass: COLOUR.pass, fail: COLOUR.fail, inconclusive: COLOUR.inconclusive };
-const VERDICT_COLOUR = { within_tolerance: COLOUR.pass, out_of_tolerance: COLOUR.fail, inconclusive: COLOUR.inconclusive } as const;
+export const RESULT_WORDS: Record<LineResult, string> = { pass: "Pass", fail: "Fail", inconclusive: "Inconclusive" };
+export const RESULT_COLOUR: Record<LineResult, string> = { pass: COLOUR.pass, fail: COLOUR.fail, inconclusive: COLOUR.inconclusive };
+export const VERDICT_COLOUR = { within_tolerance: COLOUR.pass, out_of_tolerance: COLOUR.fail, inconclusive: COLOUR.inconclusive } as const;
 
 /** The fixed sentences of the fine print, exported so tests and the verification page use the same words. */
 export const FINE_PRINT = {
@@ -126,9 +126,9 @@ export const FINE_PRINT = {
 
 // ---------------------------------------------------------------------------------------------
 
-type Doc = PDFKit.PDFDocument;
+export type Doc = PDFKit.PDFDocument;
 
-interface Column {
+export interface Column {
   key: string;
   title: string;
   width: number;
@@ -165,7 +165,7 @@ function cellsFor(r: CertificateResult): Record<string, string> {
   };
 }
 
-async function qrPng(url: string): Promise<Buffer> {
+export async function qrPng(url: string): Promise<Buffer> {
   // Error correction M survives a smudge or a fold; margin 4 is the quiet zone the QR standard asks for.
   return QRCode.toBuffer(url, { type: "png", errorCorrectionLevel: "M", margin: 4, scale: 6, color: { dark: "#1E2A32ff", light: "#ffffffff" } });
 }
@@ -182,37 +182,12 @@ export async function renderCertificatePdf(input: CertificateData): Promise<Buff
   }
   const data = parsed.data;
   const qr = await qrPng(data.verifyUrl);
-  const issued = new Date(data.issuedAt);
-
-  const doc = new PDFDocument({
-    size: "A4",
-    margins: MARGIN,
-    bufferPages: true,
-    autoFirstPage: false,
-    pdfVersion: "1.7",
-    subset: "PDF/A-2b",
-    lang: "en-GB",
-    displayTitle: true,
-    info: {
-      Title: `Test certificate ${data.number}`,
-      Author: data.workshop.name,
-      Subject: `Test certificate for unit ${data.unit.serial}, ${data.product.specName} v${data.product.specVersion}`,
-      Creator: "Tinelog",
-      Producer: "Tinelog (pdfkit)",
-      CreationDate: issued,
-      ModDate: issued,
-    },
+  const { doc, finished } = openCertificateDocument({
+    title: `Test certificate ${data.number}`,
+    author: data.workshop.name,
+    subject: `Test certificate for unit ${data.unit.serial}, ${data.product.specName} v${data.product.specVersion}`,
+    issuedAt: data.issuedAt,
   });
-  const chunks: Buffer[] = [];
-  doc.on("data", (c: Buffer) => chunks.push(c));
-  const finished = new Promise<Buffer>((resolve, reject) => {
-    doc.on("end", () => resolve(Buffer.concat(chunks)));
-    doc.on("error", reject);
-  });
-
-  doc.registerFont("regular", FONTS.regular);
-  doc.registerFont("medium", FONTS.medium);
-  doc.registerFont("semibold", FONTS.semibold);
 
   doc.on("pageAdded", () => drawHeader(doc, data));
   doc.addPage();
@@ -230,22 +205,57 @@ export async function renderCertificatePdf(input: CertificateData): Promise<Buff
   return finished;
 }
 
-function drawHeader(doc: Doc, data: CertificateData): void {
+/**
+ * A new A4 certificate document with Inter registered ("regular", "medium", "semibold") and its
+ * bytes collected. The dates come from the issue time, so the same data give the same bytes.
+ */
+export function openCertificateDocument(info: { title: string; author: string; subject: string; issuedAt: string }): { doc: Doc; finished: Promise<Buffer> } {
+  const issued = new Date(info.issuedAt);
+  const doc = new PDFDocument({
+    size: "A4",
+    margins: MARGIN,
+    bufferPages: true,
+    autoFirstPage: false,
+    pdfVersion: "1.7",
+    subset: "PDF/A-2b",
+    lang: "en-GB",
+    displayTitle: true,
+    info: { Title: info.title, Author: info.author, Subject: info.subject, Creator: "Tinelog", Producer: "Tinelog (pdfkit)", CreationDate: issued, ModDate: issued },
+  });
+  const chunks: Buffer[] = [];
+  doc.on("data", (c: Buffer) => chunks.push(c));
+  const finished = new Promise<Buffer>((resolve, reject) => {
+    doc.on("end", () => resolve(Buffer.concat(chunks)));
+    doc.on("error", reject);
+  });
+  doc.registerFont("regular", FONTS.regular);
+  doc.registerFont("medium", FONTS.medium);
+  doc.registerFont("semibold", FONTS.semibold);
+  return { doc, finished };
+}
+
+/** The running header of every page: the workshop on the left, the document and its number on the right. */
+export function drawRunningHeader(doc: Doc, workshopName: string, title: string): void {
   const y = 30;
   doc.save();
-  doc.font("semibold").fontSize(9).fillColor(COLOUR.ink).text(data.workshop.name, MARGIN.left, y, { width: CONTENT_WIDTH / 2 - 8, height: 11, ellipsis: true });
-  doc
-    .font("regular")
-    .fontSize(8.5)
-    .fillColor(COLOUR.muted)
-    .text(`Test certificate No. ${data.number}`, MARGIN.left + CONTENT_WIDTH / 2, y, { width: CONTENT_WIDTH / 2, align: "right", lineBreak: false });
+  doc.font("semibold").fontSize(9).fillColor(COLOUR.ink).text(workshopName, MARGIN.left, y, { width: CONTENT_WIDTH / 2 - 8, height: 11, ellipsis: true });
+  doc.font("regular").fontSize(8.5).fillColor(COLOUR.muted).text(title, MARGIN.left + CONTENT_WIDTH / 2, y, { width: CONTENT_WIDTH / 2, align: "right", lineBreak: false });
   doc.moveTo(MARGIN.left, 50).lineTo(PAGE.width - MARGIN.right, 50).lineWidth(1.2).strokeColor(COLOUR.accent).stroke();
   doc.restore();
   doc.x = MARGIN.left;
   doc.y = MARGIN.top;
 }
 
+function drawHeader(doc: Doc, data: CertificateData): void {
+  drawRunningHeader(doc, data.workshop.name, `Test certificate No. ${data.number}`);
+}
+
 function drawFooters(doc: Doc, data: CertificateData): void {
+  drawPageFooters(doc, `Certificate No. ${data.number}`, data.withdrawn ? "WITHDRAWN" : data.superseded ? "SUPERSEDED" : null);
+}
+
+/** Number, "reproduce only in full" and "Page i of n" on every page, and the watermark when there is one. */
+export function drawPageFooters(doc: Doc, label: string, watermark: "WITHDRAWN" | "SUPERSEDED" | null): void {
   const range = doc.bufferedPageRange();
   const total = range.count;
   for (let i = range.start; i < range.start + total; i++) {
@@ -256,37 +266,44 @@ function drawFooters(doc: Doc, data: CertificateData): void {
     const y = PAGE.height - 44;
     doc.moveTo(MARGIN.left, y - 8).lineTo(PAGE.width - MARGIN.right, y - 8).lineWidth(0.5).strokeColor(COLOUR.rule).stroke();
     doc.font("regular").fontSize(7.5).fillColor(COLOUR.muted);
-    doc.text(`Certificate No. ${data.number}`, MARGIN.left, y, { width: CONTENT_WIDTH / 3, lineBreak: false });
+    doc.text(label, MARGIN.left, y, { width: CONTENT_WIDTH / 3, lineBreak: false });
     doc.text("Reproduce only in full", MARGIN.left + CONTENT_WIDTH / 3, y, { width: CONTENT_WIDTH / 3, align: "center", lineBreak: false });
     doc.font("medium").fillColor(COLOUR.ink);
     doc.text(`Page ${i - range.start + 1} of ${total}`, MARGIN.left + (2 * CONTENT_WIDTH) / 3, y, { width: CONTENT_WIDTH / 3, align: "right", lineBreak: false });
-    if (data.superseded) drawSupersededWatermark(doc);
+    if (watermark) drawWatermark(doc, watermark);
     doc.page.margins.bottom = bottom;
   }
 }
 
-function drawSupersededWatermark(doc: Doc): void {
+/** A large, faint diagonal word across the page (a superseded or withdrawn certificate). */
+function drawWatermark(doc: Doc, word: string): void {
   doc.save();
   const cx = PAGE.width / 2;
   const cy = PAGE.height / 2;
   doc.rotate(-35, { origin: [cx, cy] });
   doc.font("semibold").fontSize(84).fillColor(COLOUR.fail).fillOpacity(0.1);
-  doc.text("SUPERSEDED", cx - 330, cy - 50, { width: 660, align: "center", lineBreak: false });
+  doc.text(word, cx - 330, cy - 50, { width: 660, align: "center", lineBreak: false });
   doc.restore();
 }
 
-function ensureSpace(doc: Doc, height: number): void {
+/** The notice at the top of a withdrawn certificate: when, why, and that it is no longer valid. */
+export function drawWithdrawnNotice(doc: Doc, withdrawn: { at: string; reason: string }): void {
+  noticeBox(doc, `WITHDRAWN on ${formatDateUtc(withdrawn.at)}. This certificate was withdrawn by the issuing workshop and is no longer valid; it stays on record as issued. Reason: ${withdrawn.reason}`, COLOUR.fail, "#FFFFFF", true);
+}
+
+export function ensureSpace(doc: Doc, height: number): void {
   if (doc.y + height > BOTTOM) doc.addPage();
 }
 
-function sectionHeading(doc: Doc, title: string, spaceAfterHeading = 40): void {
+export function sectionHeading(doc: Doc, title: string, spaceAfterHeading = 40): void {
   ensureSpace(doc, 18 + spaceAfterHeading);
   doc.moveDown(0.5);
   doc.font("semibold").fontSize(10).fillColor(COLOUR.accent).text(title, MARGIN.left, doc.y, { width: CONTENT_WIDTH });
   doc.moveDown(0.25);
 }
 
-function drawTitleBlock(doc: Doc, data: CertificateData, qr: Buffer): void {
+/** The QR code (top right), the document's title, its number and a one-line subtitle; returns where the text column is. */
+export function drawTitleHead(doc: Doc, qr: Buffer, title: string, number: string, subtitle: string): { top: number; qrSize: number; textWidth: number } {
   const top = doc.y;
   const qrSize = 84;
   const qrX = PAGE.width - MARGIN.right - qrSize;
@@ -294,10 +311,21 @@ function drawTitleBlock(doc: Doc, data: CertificateData, qr: Buffer): void {
   doc.font("regular").fontSize(6.5).fillColor(COLOUR.muted).text("Scan to verify", qrX, top + qrSize - 2, { width: qrSize, align: "center" });
 
   const textWidth = CONTENT_WIDTH - qrSize - 16;
-  doc.font("semibold").fontSize(22).fillColor(COLOUR.ink).text("Test certificate", MARGIN.left, top, { width: textWidth });
-  doc.font("medium").fontSize(11).fillColor(COLOUR.accent).text(`No. ${data.number}`, { width: textWidth });
+  doc.font("semibold").fontSize(22).fillColor(COLOUR.ink).text(title, MARGIN.left, top, { width: textWidth });
+  doc.font("medium").fontSize(11).fillColor(COLOUR.accent).text(`No. ${number}`, { width: textWidth });
   doc.moveDown(0.3);
-  doc.font("regular").fontSize(8.5).fillColor(COLOUR.muted).text("Measured partial frequencies and decay of a tuned metal item", { width: textWidth });
+  doc.font("regular").fontSize(8.5).fillColor(COLOUR.muted).text(subtitle, { width: textWidth });
+  return { top, qrSize, textWidth };
+}
+
+/** The verification address and code, right-aligned under the title. */
+export function drawVerifyLine(doc: Doc, data: Pick<CertificateData, "verifyUrl" | "verificationCode">): void {
+  doc.font("regular").fontSize(7.5).fillColor(COLOUR.muted).text(`Verify at ${data.verifyUrl} \u00B7 code ${data.verificationCode}`, MARGIN.left, doc.y, { width: CONTENT_WIDTH, align: "right", link: data.verifyUrl });
+  doc.moveDown(0.4);
+}
+
+function drawTitleBlock(doc: Doc, data: CertificateData, qr: Buffer): void {
+  const { top, qrSize, textWidth } = drawTitleHead(doc, qr, "Test certificate", data.number, "Measured partial frequencies and decay of a tuned metal item");
   doc.moveDown(0.5);
 
   // Verdict badge.
@@ -307,16 +335,16 @@ function drawTitleBlock(doc: Doc, data: CertificateData, qr: Buffer): void {
   const badgeY = doc.y;
   doc.roundedRect(MARGIN.left, badgeY, badgeW, 20, 4).fillColor(VERDICT_COLOUR[data.verdict]).fill();
   doc.fillColor("#FFFFFF").text(verdict, MARGIN.left, badgeY + 5, { width: badgeW, align: "center", lineBreak: false });
-  doc.font("regular").fontSize(8.5).fillColor(COLOUR.muted).text(`Verdict against ${data.product.specName}, version ${data.product.specVersion}`, MARGIN.left + badgeW + 10, badgeY + 5.5, {
+  const against = data.concession ? "Released under a concession: see the statement of conformity" : `Verdict against ${data.product.specName}, version ${data.product.specVersion}`;
+  doc.font("regular").fontSize(8.5).fillColor(COLOUR.muted).text(against, MARGIN.left + badgeW + 10, badgeY + 5.5, {
     width: textWidth - badgeW - 10,
     lineBreak: false,
   });
   doc.y = Math.max(badgeY + 28, top + qrSize + 10);
   doc.x = MARGIN.left;
+  drawVerifyLine(doc, data);
 
-  doc.font("regular").fontSize(7.5).fillColor(COLOUR.muted).text(`Verify at ${data.verifyUrl} \u00B7 code ${data.verificationCode}`, MARGIN.left, doc.y, { width: CONTENT_WIDTH, align: "right", link: data.verifyUrl });
-  doc.moveDown(0.4);
-
+  if (data.withdrawn) drawWithdrawnNotice(doc, data.withdrawn);
   if (data.superseded) {
     const msg = data.supersededBy
       ? `SUPERSEDED. This certificate has been replaced by No. ${data.supersededBy}; it stays on record as issued but is no longer valid.`
@@ -334,7 +362,7 @@ function drawTitleBlock(doc: Doc, data: CertificateData, qr: Buffer): void {
   }
 }
 
-function noticeBox(doc: Doc, message: string, fill: string, ink: string, strong: boolean): void {
+export function noticeBox(doc: Doc, message: string, fill: string, ink: string, strong: boolean): void {
   doc.font(strong ? "semibold" : "regular").fontSize(9);
   const h = doc.heightOfString(message, { width: CONTENT_WIDTH - 20 }) + 14;
   ensureSpace(doc, h + 6);
@@ -372,6 +400,12 @@ function drawParticulars(doc: Doc, data: CertificateData): void {
     ["Strikes combined", `${c.strikes} (median of the strikes)`],
     ["Place of measurement", c.location ?? "at the issuing workshop"],
   ];
+  drawParticularColumns(doc, left, right);
+  drawMethod(doc, data.method);
+}
+
+/** The "Particulars" section: label/value pairs in two columns. */
+export function drawParticularColumns(doc: Doc, left: [string, string][], right: [string, string][]): void {
   sectionHeading(doc, "Particulars", 150);
   const colW = (CONTENT_WIDTH - 24) / 2;
   const top = doc.y;
@@ -379,10 +413,12 @@ function drawParticulars(doc: Doc, data: CertificateData): void {
   const rightEnd = labelledColumn(doc, right, MARGIN.left + colW + 24, top, colW);
   doc.x = MARGIN.left;
   doc.y = Math.max(leftEnd, rightEnd);
+}
 
+export function drawMethod(doc: Doc, method: CertificateData["method"]): void {
   sectionHeading(doc, "Method", 40);
-  doc.font("medium").fontSize(9).fillColor(COLOUR.ink).text(`${data.method.name}, analyser version ${data.method.analyserVersion}`, MARGIN.left, doc.y, { width: CONTENT_WIDTH });
-  doc.font("regular").fontSize(8.5).fillColor(COLOUR.ink).text(data.method.summary, { width: CONTENT_WIDTH, lineGap: 1 });
+  doc.font("medium").fontSize(9).fillColor(COLOUR.ink).text(`${method.name}, analyser version ${method.analyserVersion}`, MARGIN.left, doc.y, { width: CONTENT_WIDTH });
+  doc.font("regular").fontSize(8.5).fillColor(COLOUR.ink).text(method.summary, { width: CONTENT_WIDTH, lineGap: 1 });
 }
 
 function labelledColumn(doc: Doc, rows: [string, string][], x: number, y: number, width: number): number {
@@ -396,13 +432,18 @@ function labelledColumn(doc: Doc, rows: [string, string][], x: number, y: number
 }
 
 function drawTableHeader(doc: Doc): void {
+  drawColumnHeader(doc, COLUMNS);
+}
+
+/** A results table's header row, the column titles on the soft accent. */
+export function drawColumnHeader(doc: Doc, columns: Column[]): void {
   const y = doc.y;
   doc.font("medium").fontSize(7.5);
-  const h = Math.max(...COLUMNS.map((c) => doc.heightOfString(c.title, { width: c.width - 6 }))) + 8;
+  const h = Math.max(...columns.map((c) => doc.heightOfString(c.title, { width: c.width - 6 }))) + 8;
   doc.rect(MARGIN.left, y, CONTENT_WIDTH, h).fillColor(COLOUR.accentSoft).fill();
   let x = MARGIN.left;
   doc.fillColor(COLOUR.ink);
-  for (const col of COLUMNS) {
+  for (const col of columns) {
     doc.text(col.title, x + 3, y + 4, { width: col.width - 6, align: col.align });
     x += col.width;
   }
@@ -450,27 +491,32 @@ function drawResults(doc: Doc, data: CertificateData): void {
 }
 
 function drawConformity(doc: Doc, data: CertificateData): void {
+  // A concession's departures and reason are part of the signed statement itself.
+  const head = data.concession ? `${verdictWords[data.verdict]} \u2014 released as it is under a concession` : verdictWords[data.verdict];
+  drawDecisionAndStatement(doc, data.decisionRule, VERDICT_COLOUR[data.verdict], head, data.statementOfConformity);
+}
+
+/** The decision rule in words, then the statement of conformity in a box with a coloured edge. */
+export function drawDecisionAndStatement(doc: Doc, rule: CertificateData["decisionRule"], colour: string, head: string, statement: string): void {
   sectionHeading(doc, "Decision rule", 30);
-  doc.font("regular").fontSize(8.5).fillColor(COLOUR.ink).text(decisionRuleWords[data.decisionRule], MARGIN.left, doc.y, { width: CONTENT_WIDTH, lineGap: 1 });
+  doc.font("regular").fontSize(8.5).fillColor(COLOUR.ink).text(decisionRuleWords[rule], MARGIN.left, doc.y, { width: CONTENT_WIDTH, lineGap: 1 });
 
   sectionHeading(doc, "Statement of conformity", 50);
-  const colour = VERDICT_COLOUR[data.verdict];
   doc.font("semibold").fontSize(10);
-  const head = verdictWords[data.verdict];
   doc.font("regular").fontSize(9);
-  const bodyH = doc.heightOfString(data.statementOfConformity, { width: CONTENT_WIDTH - 24, lineGap: 1 });
+  const bodyH = doc.heightOfString(statement, { width: CONTENT_WIDTH - 24, lineGap: 1 });
   const h = bodyH + 34;
   ensureSpace(doc, h);
   const y = doc.y;
   doc.rect(MARGIN.left, y, 3, h).fillColor(colour).fill();
   doc.rect(MARGIN.left + 3, y, CONTENT_WIDTH - 3, h).fillColor(COLOUR.zebra).fill();
   doc.font("semibold").fontSize(10).fillColor(colour).text(head, MARGIN.left + 14, y + 8, { width: CONTENT_WIDTH - 24 });
-  doc.font("regular").fontSize(9).fillColor(COLOUR.ink).text(data.statementOfConformity, MARGIN.left + 14, doc.y + 2, { width: CONTENT_WIDTH - 24, lineGap: 1 });
+  doc.font("regular").fontSize(9).fillColor(COLOUR.ink).text(statement, MARGIN.left + 14, doc.y + 2, { width: CONTENT_WIDTH - 24, lineGap: 1 });
   doc.x = MARGIN.left;
   doc.y = y + h;
 }
 
-function drawAuthorisation(doc: Doc, data: CertificateData): void {
+export function drawAuthorisation(doc: Doc, data: Pick<CertificateData, "authorisedBy" | "authorisedAt">): void {
   sectionHeading(doc, "Authorisation", 40);
   const y = doc.y;
   doc.font("regular").fontSize(7.5).fillColor(COLOUR.muted).text("Authorised by", MARGIN.left, y + 1, { width: 92 });
@@ -482,9 +528,10 @@ function drawAuthorisation(doc: Doc, data: CertificateData): void {
 }
 
 const T60_EXTRAPOLATED =
-  "T60 is the time for a partial to decay by 60 dB. Where a result reads \u201Cfrom N dB\u201D, the recordings saw N dB of that decay and T60 is extrapolated from it along the fitted exponential decay.";
+  "T60 is the time for a partial to decay by 60 dB. Where a result reads \u201Cfrom N dB\u201D (marked \u2020 in a list of units), the recordings saw N dB of that decay and T60 is extrapolated from it along the fitted exponential decay.";
 
-function drawFinePrint(doc: Doc, data: CertificateData): void {
+/** The closing notes; `results` decides whether the note on extrapolated T60 is needed. */
+export function drawFinePrint(doc: Doc, data: Pick<CertificateData, "flags"> & { results: Pick<CertificateData["results"][number], "t60ObservedDecayDb">[] }): void {
   const notes = [FINE_PRINT.itemOnly, FINE_PRINT.fullOnly, FINE_PRINT.uncertainty];
   if (data.results.some((r) => t60ExtrapolatedFrom(r.t60ObservedDecayDb))) notes.push(T60_EXTRAPOLATED);
   if (data.flags.measurementOnlyCaution) notes.push(FINE_PRINT.measurementOnly);
@@ -504,7 +551,7 @@ function drawFinePrint(doc: Doc, data: CertificateData): void {
   doc.x = MARGIN.left;
 }
 
-function drawEndMark(doc: Doc): void {
+export function drawEndMark(doc: Doc): void {
   ensureSpace(doc, 30);
   doc.moveDown(1);
   const y = doc.y + 5;

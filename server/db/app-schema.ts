@@ -3,7 +3,7 @@
  * belongs to a workshop carries `workshopId`; queries always filter on it.
  */
 import { sql } from "drizzle-orm";
-import { index, integer, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+import { index, integer, real, sqliteTable, text, uniqueIndex, type AnySQLiteColumn } from "drizzle-orm/sqlite-core";
 import { organization, user } from "./auth-schema.ts";
 
 const now = sql`(cast(unixepoch('subsecond') * 1000 as integer))`;
@@ -15,7 +15,7 @@ export const mailMessage = sqliteTable(
   {
     id: text("id").primaryKey(),
     workshopId: text("workshop_id").references(() => organization.id, { onDelete: "cascade" }),
-    kind: text("kind", { enum: ["invitation", "certificate", "other"] }).notNull(),
+    kind: text("kind", { enum: ["invitation", "certificate", "certificate_notice", "other"] }).notNull(),
     relatedId: text("related_id"),
     fromAddress: text("from_address").notNull(),
     replyTo: text("reply_to"),
@@ -190,8 +190,28 @@ export const strike = sqliteTable(
   (t) => [
     index("strike_unit_idx").on(t.unitId, t.uploadedAt),
     index("strike_state_idx").on(t.state),
-    uniqueIndex("strike_unit_sha_unique").on(t.unitId, t.sha256),
+    // Not unique: a voided strike's recording may be uploaded again (the service refuses live duplicates).
+    index("strike_unit_sha_idx").on(t.unitId, t.sha256),
   ],
+);
+
+/**
+ * A strike taken out of the record (a wrong file, another unit's recording): the strike and its
+ * measurement stay, struck through, and the unit is evaluated again without it. One void per
+ * strike, never undone; appended, chained and audited like the rest of the quality record.
+ */
+export const strikeVoid = sqliteTable(
+  "strike_void",
+  {
+    id: text("id").primaryKey(),
+    workshopId: text("workshop_id").notNull().references(() => organization.id, { onDelete: "cascade" }),
+    strikeId: text("strike_id").notNull().references(() => strike.id, { onDelete: "cascade" }),
+    unitId: text("unit_id").notNull().references(() => unit.id, { onDelete: "cascade" }),
+    reason: text("reason").notNull(),
+    voidedBy: text("voided_by").references(() => user.id),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("strike_void_strike_unique").on(t.strikeId), index("strike_void_unit_idx").on(t.unitId)],
 );
 
 /** The analysis of a strike: appended once, never updated (re-analysis would append). */
@@ -257,8 +277,10 @@ export const disposition = sqliteTable(
     reason: text("reason").notNull(),
     decidedBy: text("decided_by").references(() => user.id),
     createdAt: createdAt(),
+    /** The disposition this one replaces (a correction before release); null for a first decision. */
+    supersedesId: text("supersedes_id").references((): AnySQLiteColumn => disposition.id),
   },
-  (t) => [index("disposition_unit_idx").on(t.unitId, t.createdAt)],
+  (t) => [index("disposition_unit_idx").on(t.unitId, t.createdAt), uniqueIndex("disposition_supersedes_unique").on(t.supersedesId)],
 );
 
 /**
@@ -272,7 +294,7 @@ export const ledgerEntry = sqliteTable(
     id: integer("id").primaryKey({ autoIncrement: true }),
     workshopId: text("workshop_id").notNull().references(() => organization.id, { onDelete: "cascade" }),
     seq: integer("seq").notNull(),
-    kind: text("kind", { enum: ["measurement", "evaluation", "disposition", "release"] }).notNull(),
+    kind: text("kind", { enum: ["measurement", "evaluation", "disposition", "release", "strike_void", "certificate_withdrawal"] }).notNull(),
     entityId: text("entity_id").notNull(),
     contentHash: text("content_hash").notNull(),
     prevHash: text("prev_hash").notNull(),
@@ -307,8 +329,56 @@ export const certificate = sqliteTable(
     createdAt: createdAt(),
   },
   (t) => [
-    uniqueIndex("certificate_number_unique").on(t.number),
+    // Each workshop numbers its own certificates: two workshops may use the same prefix.
+    uniqueIndex("certificate_workshop_number_unique").on(t.workshopId, t.number),
     uniqueIndex("certificate_code_unique").on(t.verificationCode),
     index("certificate_unit_idx").on(t.unitId),
   ],
+);
+
+/**
+ * One certificate for a consignment: every unit of a released batch that may carry a certificate,
+ * with its results. Signed and stored like a unit certificate; numbered in the same series.
+ */
+export const batchCertificate = sqliteTable(
+  "batch_certificate",
+  {
+    id: text("id").primaryKey(),
+    workshopId: text("workshop_id").notNull().references(() => organization.id, { onDelete: "cascade" }),
+    batchId: text("batch_id").notNull().references(() => batch.id),
+    number: text("number").notNull(),
+    verificationCode: text("verification_code").notNull(),
+    recipientEmail: text("recipient_email").notNull(),
+    recipientName: text("recipient_name"),
+    issuedBy: text("issued_by").references(() => user.id),
+    issuedAt: integer("issued_at", { mode: "timestamp_ms" }).notNull(),
+    canonical: text("canonical").notNull(),
+    signature: text("signature").notNull(),
+    pdfSha256: text("pdf_sha256").notNull(),
+    pdfKey: text("pdf_key").notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    uniqueIndex("batch_certificate_workshop_number_unique").on(t.workshopId, t.number),
+    uniqueIndex("batch_certificate_code_unique").on(t.verificationCode),
+    index("batch_certificate_batch_idx").on(t.batchId),
+  ],
+);
+
+/**
+ * A certificate taken back (unit or batch certificate, by id): the certificate stays on record and
+ * its verification page says when and why it was withdrawn. One per certificate, never undone.
+ */
+export const certificateWithdrawal = sqliteTable(
+  "certificate_withdrawal",
+  {
+    id: text("id").primaryKey(),
+    workshopId: text("workshop_id").notNull().references(() => organization.id, { onDelete: "cascade" }),
+    /** A `certificate.id` or a `batch_certificate.id` (ids are UUIDs, unique across both). */
+    certificateId: text("certificate_id").notNull(),
+    reason: text("reason").notNull(),
+    withdrawnBy: text("withdrawn_by").references(() => user.id),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("certificate_withdrawal_certificate_unique").on(t.certificateId)],
 );

@@ -11,7 +11,7 @@ import { mailMessage } from "../db/schema.ts";
 
 export type OutgoingMail = {
   workshopId: string | null;
-  kind: "invitation" | "certificate" | "other";
+  kind: "invitation" | "certificate" | "certificate_notice" | "other";
   relatedId?: string;
   to: string;
   subject: string;

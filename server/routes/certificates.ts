@@ -1,23 +1,27 @@
-/** Certificates: issue, preview, list, PDF, re-send; and the public verification look-up. */
-import { Router } from "express";
+/** Certificates: issue, preview, list, PDF, re-send, withdraw; and the public verification look-up. */
+import { Router, type Request } from "express";
 import { rateLimit } from "express-rate-limit";
 import { issueCertificateSchema, verificationCodeSchema } from "../../shared/schemas/certificate.ts";
-import { notFound } from "../http-error.ts";
+import { withdrawCertificateSchema } from "../../shared/schemas/corrections.ts";
+import { HttpError, notFound } from "../http-error.ts";
 import { publicRoute, requirePermission, userOf, workshopOf } from "../middleware/guards.ts";
-import { certificatePdf, findCertificate, issueCertificate, listCertificates, previewCertificate, sendCertificateMail, verifyByCode } from "../services/certificates.ts";
+import { certificatePdf, issueCertificate, listCertificates, previewCertificate, resendCertificate, verifyByCode, withdrawCertificate } from "../services/certificates.ts";
+import { findAnyCertificate } from "../services/certificate-store.ts";
 import { findUnit } from "../services/strikes.ts";
 import type { AppDeps } from "../app.ts";
 
+/** Who issues: the signed-in member with their name and role (printed on the certificate). */
+export function issuerOf(req: Request) {
+  const w = workshopOf(req);
+  const u = userOf(req);
+  return { workshopId: w.id, userId: u.id, name: u.name, role: w.role };
+}
+
 export function certificateRoutes(deps: AppDeps) {
-  const { db, certificates } = deps;
+  const { db, sqlite, certificates } = deps;
   const r = Router();
   const issue = requirePermission("certificate", "issue");
   const read = requirePermission("certificate", "read");
-  const actor = (req: Parameters<typeof workshopOf>[0]) => {
-    const w = workshopOf(req);
-    const u = userOf(req);
-    return { workshopId: w.id, userId: u.id, name: u.name, role: w.role };
-  };
 
   r.get("/units/:id/certificates", read, (req, res) => {
     const u = findUnit(db, workshopOf(req).id, String(req.params.id));
@@ -27,14 +31,14 @@ export function certificateRoutes(deps: AppDeps) {
   r.post("/units/:id/certificates", issue, async (req, res) => {
     findUnit(db, workshopOf(req).id, String(req.params.id));
     const input = issueCertificateSchema.parse(req.body);
-    const c = await issueCertificate(certificates, actor(req), String(req.params.id), input);
+    const c = await issueCertificate(certificates, issuerOf(req), String(req.params.id), input);
     res.status(201).json({ number: c.number, verifyUrl: c.verifyUrl, certificate: c });
   });
 
   r.post("/units/:id/certificates/preview", issue, async (req, res) => {
     findUnit(db, workshopOf(req).id, String(req.params.id));
     const input = issueCertificateSchema.parse(req.body);
-    const pdf = await previewCertificate(certificates, actor(req), String(req.params.id), input);
+    const pdf = await previewCertificate(certificates, issuerOf(req), String(req.params.id), input);
     res.type("application/pdf").set("Content-Disposition", 'inline; filename="certificate-preview.pdf"').send(pdf);
   });
 
@@ -44,9 +48,19 @@ export function certificateRoutes(deps: AppDeps) {
   });
 
   r.post("/certificates/:number/send", issue, async (req, res) => {
-    const c = findCertificate(db, workshopOf(req).id, String(req.params.number));
-    const mail = await sendCertificateMail(certificates, c.id);
-    res.json({ mail: { id: mail.id, state: mail.state, error: mail.error, attempts: mail.attempts } });
+    try {
+      res.json(await resendCertificate(certificates, issuerOf(req), String(req.params.number)));
+    } catch (error) {
+      const retry = (error as { retryAfterS?: number }).retryAfterS;
+      if (error instanceof HttpError && retry) res.set("Retry-After", String(retry));
+      throw error;
+    }
+  });
+
+  r.post("/certificates/:number/withdraw", requirePermission("certificate", "withdraw"), async (req, res) => {
+    findAnyCertificate(db, workshopOf(req).id, String(req.params.number)); // 404 before validation
+    const { reason } = withdrawCertificateSchema.parse(req.body);
+    res.json(await withdrawCertificate({ ...certificates, sqlite }, issuerOf(req), String(req.params.number), reason));
   });
 
   // Public and rate limited: a code is random, but nobody should be able to try codes at speed.

@@ -11,16 +11,18 @@ import { Router } from "express";
 import multer from "multer";
 import { dispositionInputSchema, updateUnitSchema } from "../../shared/schemas/batch.ts";
 import { strikeUploadFieldsSchema } from "../../shared/schemas/strike.ts";
+import { supersedeDispositionSchema, voidStrikeSchema } from "../../shared/schemas/corrections.ts";
 import { serialFromFileName } from "../../shared/serials.ts";
 import { AnalysisInputError } from "../analysis/errors.ts";
 import { readWavHeader } from "../analysis/wav.ts";
 import { and, asc, count, eq, inArray } from "drizzle-orm";
-import { strike, unit } from "../db/schema.ts";
-import { badRequest, conflict, HttpError } from "../http-error.ts";
+import { disposition, strike, unit } from "../db/schema.ts";
+import { badRequest, conflict, HttpError, notFound } from "../http-error.ts";
 import { requirePermission, userOf, workshopOf } from "../middleware/guards.ts";
 import { audit } from "../services/audit.ts";
 import { findBatch } from "../services/batches.ts";
-import { assertNotDuplicate, findUnit, getStrike, getUnit, insertStrike, nextUnmeasured, recordDisposition, strikeFile } from "../services/strikes.ts";
+import { recordDisposition, supersedeDisposition } from "../services/dispositions.ts";
+import { assertNotDuplicate, findUnit, getStrike, getUnit, insertStrike, nextUnmeasured, strikeFile, voidStrike } from "../services/strikes.ts";
 import type { AppDeps } from "../app.ts";
 
 const HEADER_BYTES = 1 << 20;
@@ -195,6 +197,22 @@ export function strikeRoutes(deps: AppDeps) {
     const input = dispositionInputSchema.parse(req.body);
     const actor = { workshopId: workshopOf(req).id, userId: userOf(req).id };
     res.status(201).json(recordDisposition(db, sqlite, actor, String(req.params.id), input));
+  });
+
+  /** Replaces the unit's standing disposition with a new decision and its reason (until release). */
+  r.post("/dispositions/:id/supersede", requirePermission("disposition", "supersede"), (req, res) => {
+    const d = db.select({ id: disposition.id }).from(disposition).where(and(eq(disposition.id, String(req.params.id)), eq(disposition.workshopId, workshopOf(req).id))).get();
+    if (!d) throw notFound("That disposition");
+    const input = supersedeDispositionSchema.parse(req.body);
+    res.status(201).json(supersedeDisposition(db, sqlite, { workshopId: workshopOf(req).id, userId: userOf(req).id }, d.id, input));
+  });
+
+  /** Takes a strike out of the record with a reason; the unit is evaluated again without it. */
+  r.post("/strikes/:id/void", requirePermission("strike", "void"), (req, res) => {
+    strikeFile(db, workshopOf(req).id, String(req.params.id)); // 404 before validation
+    const { reason } = voidStrikeSchema.parse(req.body);
+    const w = workshopOf(req);
+    res.json(voidStrike(db, sqlite, { workshopId: w.id, userId: userOf(req).id, role: w.role }, String(req.params.id), reason));
   });
 
   return r;

@@ -8,8 +8,10 @@ import { expandSerialRange, SerialRangeError } from "../../shared/serials.ts";
 import type { Db, Sqlite } from "../db/client.ts";
 import { batch, disposition, evaluation, specVersion, specPartial, strike, unit, user } from "../db/schema.ts";
 import { badRequest, conflict, HttpError, notFound } from "../http-error.ts";
+import { verdictWhy } from "../../shared/verdict-why.ts";
 import { audit, type Actor } from "./audit.ts";
 import { appendToChain } from "./ledger-chain.ts";
+import { usesVoidedStrike, voidsByUnit } from "./strike-voids.ts";
 
 const CLOSING_DECISIONS: DispositionDecision[] = ["use_as_is", "scrap"];
 
@@ -24,17 +26,26 @@ function specOf(db: Db, versionId: string) {
   return { id: v.specId, name: v.name, version: v.version, versionId: v.id, family: v.family as Family };
 }
 
-/** The latest evaluation of each unit, keyed by unit id. */
+/**
+ * The latest evaluation of each unit, keyed by unit id. A unit whose latest evaluation was made
+ * from a strike voided since (and that has no strike left to evaluate) has none.
+ */
 export function latestEvaluations(db: Db, unitIds: string[]): Map<string, EvaluationView> {
   const out = new Map<string, EvaluationView>();
   if (!unitIds.length) return out;
   const rows = db.select().from(evaluation).where(inArray(evaluation.unitId, unitIds)).orderBy(asc(evaluation.createdAt), asc(evaluation.id)).all();
   for (const r of rows) out.set(r.unitId, { ...(r.detail as EvaluationView), id: r.id, unitId: r.unitId, specVersionId: r.specVersionId, verdict: r.verdict, createdAt: r.createdAt.toISOString() });
+  const voids = voidsByUnit(db, [...out.keys()]);
+  for (const [unitId, list] of voids) {
+    const ev = out.get(unitId);
+    if (ev && usesVoidedStrike(ev, list)) out.delete(unitId);
+  }
   return out;
 }
 
-function latestDispositions(db: Db, unitIds: string[]) {
-  const out = new Map<string, { decision: DispositionDecision; reason: string; at: Date; by: string; evaluationId: string | null }>();
+/** The latest disposition of each unit (a superseding one is always the later), keyed by unit id. */
+export function latestDispositions(db: Db, unitIds: string[]) {
+  const out = new Map<string, { id: string; decision: DispositionDecision; reason: string; at: Date; by: string; evaluationId: string | null }>();
   if (!unitIds.length) return out;
   const rows = db
     .select({ d: disposition, by: user.name })
@@ -43,7 +54,17 @@ function latestDispositions(db: Db, unitIds: string[]) {
     .where(inArray(disposition.unitId, unitIds))
     .orderBy(asc(disposition.createdAt))
     .all();
-  for (const { d, by } of rows) out.set(d.unitId, { decision: d.decision, reason: d.reason, at: d.createdAt, by: by ?? "unknown", evaluationId: d.evaluationId });
+  for (const { d, by } of rows) out.set(d.unitId, { id: d.id, decision: d.decision, reason: d.reason, at: d.createdAt, by: by ?? "unknown", evaluationId: d.evaluationId });
+  return out;
+}
+
+/**
+ * The disposition that decides each unit now: the latest one, made on the unit's latest evaluation
+ * (a new evaluation, after a new strike or a void, reopens the unit). Keyed by unit id.
+ */
+export function standingDispositions(db: Db, unitIds: string[], evals: Map<string, EvaluationView> = latestEvaluations(db, unitIds)) {
+  const out = latestDispositions(db, unitIds);
+  for (const [unitId, d] of out) if (d.evaluationId !== evals.get(unitId)?.id) out.delete(unitId);
   return out;
 }
 
@@ -51,10 +72,14 @@ function ledgerRows(db: Db, batchId: string): LedgerRow[] {
   const units = db.select().from(unit).where(eq(unit.batchId, batchId)).orderBy(asc(unit.position)).all();
   const ids = units.map((u) => u.id);
   const evals = latestEvaluations(db, ids);
-  const disps = latestDispositions(db, ids);
-  const strikes = ids.length
-    ? db.select({ unitId: strike.unitId, state: strike.state, at: strike.uploadedAt }).from(strike).where(inArray(strike.unitId, ids)).all()
+  const disps = standingDispositions(db, ids, evals);
+  const voided = new Set([...voidsByUnit(db, ids).values()].flat().map((v) => v.strikeId));
+  const all = ids.length
+    ? db.select({ id: strike.id, unitId: strike.unitId, state: strike.state, at: strike.uploadedAt }).from(strike).where(inArray(strike.unitId, ids)).all()
     : [];
+  const strikes = all.filter((s) => !voided.has(s.id));
+  const voidedOf = new Map<string, number>();
+  for (const s of all) if (voided.has(s.id)) voidedOf.set(s.unitId, (voidedOf.get(s.unitId) ?? 0) + 1);
   // Grouped once (Map.groupBy needs Node 21): the ledger is read on every poll of a bench tablet.
   const strikesOf = new Map<string, typeof strikes>();
   for (const s of strikes) {
@@ -67,9 +92,7 @@ function ledgerRows(db: Db, batchId: string): LedgerRow[] {
     const ev = evals.get(u.id) ?? null;
     const fund = ev?.requirements.find((r) => r.isFundamental) ?? ev?.requirements[0] ?? null;
     const overtone = ev?.requirements.find((r) => !r.isFundamental && r.measuredRatio != null) ?? null;
-    const d = disps.get(u.id);
-    // A disposition only counts for the evaluation it was made on; a new strike reopens the unit.
-    const disp = d && ev && d.evaluationId === ev.id ? d : null;
+    const disp = disps.get(u.id) ?? null;
     const pending = mine.filter((s) => s.state === "queued" || s.state === "analysing").length;
     const closed = pending === 0 && ev !== null && (ev.verdict === "within_tolerance" || (disp !== null && CLOSING_DECISIONS.includes(disp.decision)));
     const lastAt = mine.reduce<Date | null>((m, s) => (!m || s.at > m ? s.at : m), null);
@@ -89,8 +112,10 @@ function ledgerRows(db: Db, batchId: string): LedgerRow[] {
       t60ObservedDecayDb: fund?.t60ObservedDecayDb ?? null,
       t60Unreliable: fund?.t60Unreliable ?? false,
       q: fund?.q ?? null,
-      disposition: disp ? { decision: disp.decision, reason: disp.reason, at: disp.at.toISOString(), by: disp.by } : null,
+      disposition: disp ? { id: disp.id, decision: disp.decision, reason: disp.reason, at: disp.at.toISOString(), by: disp.by } : null,
       open: !closed,
+      why: ev ? verdictWhy(ev) : [],
+      voidedStrikes: voidedOf.get(u.id) ?? 0,
     };
   });
 }
@@ -250,18 +275,4 @@ export function releaseBatch(db: Db, sqlite: Sqlite, actor: Actor, batchId: stri
     audit(tx, actor, "batch.release", "batch", batchId, { before: { state: b.state }, after: { state: "released" } });
   });
   return getBatch(db, actor.workshopId, batchId);
-}
-
-/** The batch ledger as CSV (RFC 4180 quoting), one row per unit. */
-export function ledgerCsv(db: Db, workshopId: string, batchId: string): { filename: string; csv: string } {
-  const b = getBatch(db, workshopId, batchId);
-  const q = (v: unknown) => {
-    const s = v === null || v === undefined ? "" : String(v);
-    return /[",\r\n]/.test(s) ? `"${s.replaceAll('"', '""')}"` : s;
-  };
-  const header = ["serial", "verdict", "fundamental_hz", "deviation_cents", "overtone_ratio", "t60_s", "t60_observed_decay_db", "q", "strikes", "disposition", "disposition_reason", "customer_name", "last_measured_at"];
-  const lines = b.rows.map((r) =>
-    [r.serial, r.verdict, r.fundamentalHz?.toFixed(4), r.deviationCents?.toFixed(2), r.overtoneRatio?.toFixed(4), r.t60S?.toFixed(3), r.t60ObservedDecayDb?.toFixed(0), r.q?.toFixed(0), r.strikes, r.disposition?.decision, r.disposition?.reason, r.customerName, r.lastMeasuredAt].map(q).join(","),
-  );
-  return { filename: `${b.code}-ledger.csv`, csv: [header.join(","), ...lines].join("\r\n") + "\r\n" };
 }

@@ -1,18 +1,29 @@
 /**
- * The hash chain over the quality record (measurement, evaluation, disposition, release). Each entry
+ * The hash chain over the quality record (measurement, evaluation, disposition, release, and the
+ * corrections: strike voids and certificate withdrawals). Each entry
  * holds sha256(canonical row) and the previous entry's hash within the workshop, so changing any
  * byte of a chained row, or removing an entry, breaks every hash after it.
  */
 import { createHash } from "node:crypto";
 import type { Sqlite } from "../db/client.ts";
 
-export type ChainKind = "measurement" | "evaluation" | "disposition" | "release";
+export type ChainKind = "measurement" | "evaluation" | "disposition" | "release" | "strike_void" | "certificate_withdrawal";
 
 const tableOf: Record<ChainKind, string> = {
   measurement: "measurement",
   evaluation: "evaluation",
   disposition: "disposition",
   release: "batch",
+  strike_void: "strike_void",
+  certificate_withdrawal: "certificate_withdrawal",
+};
+
+/**
+ * Columns added to a chained table after rows were already chained. They are left out of the
+ * canonical form while null, so the rows chained before the column existed still hash as they did.
+ */
+const LATER_COLUMNS: Partial<Record<ChainKind, string[]>> = {
+  disposition: ["supersedes_id"],
 };
 
 export const GENESIS = "0".repeat(64);
@@ -35,6 +46,7 @@ export function canonicalRow(sqlite: Sqlite, kind: ChainKind, entityId: string):
     // A batch row changes before release; what is sealed is the release itself.
     return stable({ id: row.id, workshop_id: row.workshop_id, code: row.code, spec_version_id: row.spec_version_id, state: row.state, released_by: row.released_by, released_at: row.released_at });
   }
+  for (const column of LATER_COLUMNS[kind] ?? []) if (row[column] === null) delete row[column];
   return stable(row);
 }
 

@@ -51,15 +51,23 @@ function capturedFor(db: Db, ids: string[]) {
   return new Map(rows.map((r) => [r.messageId!, r.raw]));
 }
 
-export async function listOutbox(db: Db, workshopId: string) {
-  const rows = db.select().from(mailMessage).where(eq(mailMessage.workshopId, workshopId)).orderBy(desc(mailMessage.createdAt)).limit(200).all();
+type MailKind = (typeof mailMessage.$inferSelect)["kind"];
+
+/** Certificates, batch certificates and the notices of their withdrawal. */
+export const CERTIFICATE_MAIL_KINDS: MailKind[] = ["certificate", "certificate_notice"];
+
+/** `kinds`: only these kinds (null: every kind). */
+const scope = (workshopId: string, kinds: MailKind[] | null) => and(eq(mailMessage.workshopId, workshopId), kinds ? inArray(mailMessage.kind, kinds) : undefined);
+
+export async function listOutbox(db: Db, workshopId: string, kinds: MailKind[] | null = null) {
+  const rows = db.select().from(mailMessage).where(scope(workshopId, kinds)).orderBy(desc(mailMessage.createdAt)).limit(200).all();
   const raws = capturedFor(db, rows.flatMap((r) => (r.transportMessageId ? [r.transportMessageId] : [])));
   const messages = await Promise.all(rows.map((r) => toMessage(r, r.transportMessageId ? raws.get(r.transportMessageId) : undefined)));
   return messages.map(({ attachmentData: _omit, ...m }) => m);
 }
 
-export async function getOutboxMessage(db: Db, workshopId: string, id: string) {
-  const row = db.select().from(mailMessage).where(and(eq(mailMessage.id, id), eq(mailMessage.workshopId, workshopId))).get();
+export async function getOutboxMessage(db: Db, workshopId: string, id: string, kinds: MailKind[] | null = null) {
+  const row = db.select().from(mailMessage).where(and(eq(mailMessage.id, id), scope(workshopId, kinds))).get();
   if (!row) return null;
   const raw = row.transportMessageId ? capturedFor(db, [row.transportMessageId]).get(row.transportMessageId) : undefined;
   return toMessage(row, raw);

@@ -1,18 +1,21 @@
 /** Strikes: accepting an upload, recording its analysis, and re-evaluating the unit. */
 import { randomUUID } from "node:crypto";
-import { and, asc, desc, eq, inArray } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, isNull } from "drizzle-orm";
 import type { AnalysisResult } from "../../shared/schemas/analysis.ts";
 import type { EvaluationView } from "../../shared/schemas/evaluation.ts";
 import type { Support, SpecVersion } from "../../shared/schemas/spec.ts";
 import type { StrikeDetail, StrikeSummary, UnitDetail } from "../../shared/schemas/strike.ts";
 import { evaluateUnit, matchPartials, SAMPLE_CLOCK_HALF_WIDTH_PPM, THERMOMETER_HALF_WIDTH_C, type EvaluationStrikeInput } from "../../shared/evaluation.ts";
+import { can, type RoleName } from "../../shared/permissions.ts";
 import type { Db, Sqlite } from "../db/client.ts";
-import { batch, disposition, evaluation, measurement, partial, strike, unit, user, workshopProfile } from "../db/schema.ts";
-import { conflict, notFound } from "../http-error.ts";
+import { disposition, evaluation, measurement, partial, strike, strikeVoid, unit, user, workshopProfile } from "../db/schema.ts";
+import { conflict, forbidden, notFound } from "../http-error.ts";
 import { audit, type Actor } from "./audit.ts";
-import { latestEvaluations, findBatch } from "./batches.ts";
+import { latestEvaluations, findBatch, standingDispositions } from "./batches.ts";
+import { certifiability } from "./certification.ts";
 import { appendToChain } from "./ledger-chain.ts";
 import { getSpecVersion } from "./specs.ts";
+import { voidsByUnit, type StrikeVoidRow } from "./strike-voids.ts";
 
 export function findUnit(db: Db, workshopId: string, unitId: string) {
   const row = db.select().from(unit).where(and(eq(unit.id, unitId), eq(unit.workshopId, workshopId))).get();
@@ -38,7 +41,7 @@ function fundamentalOf(result: AnalysisResult | null, labels: Record<number, str
   return idx !== undefined ? partials[Number(idx)].frequencyHz : null;
 }
 
-function toSummary(row: StrikeRow, by: { id: string; name: string } | null, fundamentalHz: number | null): StrikeSummary {
+function toSummary(row: StrikeRow, by: { id: string; name: string } | null, fundamentalHz: number | null, voided: StrikeVoidRow | undefined): StrikeSummary {
   return {
     id: row.id,
     unitId: row.unitId,
@@ -55,6 +58,7 @@ function toSummary(row: StrikeRow, by: { id: string; name: string } | null, fund
     channels: row.channels,
     durationS: row.durationS,
     fundamentalHz,
+    voided: voided ? { at: voided.at.toISOString(), reason: voided.reason, by: voided.by } : null,
   };
 }
 
@@ -79,9 +83,14 @@ export type NewStrike = {
   support: Support | null;
 };
 
-/** Refuses a second upload of the same bytes to the same unit, naming the first. */
+/** Refuses a second upload of the same bytes to the same unit, naming the first; a voided strike's file may come back. */
 export function assertNotDuplicate(db: Db, unitId: string, sha256: string) {
-  const existing = db.select().from(strike).where(and(eq(strike.unitId, unitId), eq(strike.sha256, sha256))).get();
+  const existing = db
+    .select({ originalName: strike.originalName, uploadedAt: strike.uploadedAt })
+    .from(strike)
+    .leftJoin(strikeVoid, eq(strikeVoid.strikeId, strike.id))
+    .where(and(eq(strike.unitId, unitId), eq(strike.sha256, sha256), isNull(strikeVoid.id)))
+    .get();
   if (existing) {
     throw conflict(
       `This exact recording was already uploaded to this unit as "${existing.originalName}" on ${existing.uploadedAt.toISOString().slice(0, 16).replace("T", " ")} UTC. Strike the unit again for a new measurement.`,
@@ -93,6 +102,8 @@ export function assertNotDuplicate(db: Db, unitId: string, sha256: string) {
 export function insertStrike(db: Db, actor: Actor, s: NewStrike): StrikeRow {
   const id = randomUUID();
   return db.transaction((tx) => {
+    // Checked again inside the write: two uploads of the same file at once must not both land.
+    assertNotDuplicate(tx as unknown as Db, s.unitId, s.sha256);
     const row = tx
       .insert(strike)
       .values({ id, workshopId: actor.workshopId, unitId: s.unitId, uploadedBy: actor.userId, originalName: s.originalName, sha256: s.sha256, fileKey: s.fileKey, sizeBytes: s.sizeBytes, ...s.format, temperatureC: s.temperatureC, support: s.support, state: "queued" })
@@ -103,13 +114,14 @@ export function insertStrike(db: Db, actor: Actor, s: NewStrike): StrikeRow {
   });
 }
 
-/** Inputs of the evaluation: every analysed strike segment of the unit. */
+/** Inputs of the evaluation: every analysed strike segment of the unit, voided strikes left out. */
 function evaluationInputs(db: Db, unitId: string): EvaluationStrikeInput[] {
   const rows = db
     .select({ s: strike, result: measurement.result })
     .from(strike)
     .innerJoin(measurement, eq(measurement.strikeId, strike.id))
-    .where(and(eq(strike.unitId, unitId), eq(strike.state, "done")))
+    .leftJoin(strikeVoid, eq(strikeVoid.strikeId, strike.id))
+    .where(and(eq(strike.unitId, unitId), eq(strike.state, "done"), isNull(strikeVoid.id)))
     .orderBy(asc(strike.uploadedAt))
     .all();
   return rows.flatMap(({ s, result }) =>
@@ -153,7 +165,9 @@ export function recordAnalysis(db: Db, sqlite: Sqlite, strikeId: string, result:
       .where(eq(strike.id, strikeId))
       .run();
     appendToChain(sqlite, s.workshopId, "measurement", measurementId);
-    evaluateAndRecord(tx as unknown as Db, sqlite, s.workshopId, s.unitId);
+    // A strike voided while it waited is measured (the record keeps it) but not evaluated.
+    const voided = tx.select({ id: strikeVoid.id }).from(strikeVoid).where(eq(strikeVoid.strikeId, strikeId)).get();
+    if (!voided) evaluateAndRecord(tx as unknown as Db, sqlite, s.workshopId, s.unitId);
   });
 }
 
@@ -166,8 +180,9 @@ export function evaluateAndRecord(db: Db, sqlite: Sqlite, workshopId: string, un
   const profile = db.select().from(workshopProfile).where(eq(workshopProfile.workshopId, workshopId)).get();
   const opts = { clockHalfWidthPpm: profile?.clockTolerancePpm ?? SAMPLE_CLOCK_HALF_WIDTH_PPM, thermometerHalfWidthC: profile?.thermometerToleranceC ?? THERMOMETER_HALF_WIDTH_C };
   const { labels: _labels, ...evaluated } = evaluateUnit(spec, inputs, opts);
-  // The tolerances used stay with the evaluation: a later change of the profile does not rewrite history.
-  const view = { ...evaluated, assumptions: opts };
+  // The tolerances used stay with the evaluation: a later change of the profile does not rewrite history;
+  // the strikes used let a later void tell which evaluations it makes stale.
+  const view = { ...evaluated, assumptions: opts, strikeIds: [...new Set(inputs.map((i) => i.strikeId))] };
   const id = randomUUID();
   db.insert(evaluation).values({ id, workshopId, unitId, specVersionId: spec.id, verdict: view.verdict, detail: view }).run();
   appendToChain(sqlite, workshopId, "evaluation", id);
@@ -194,8 +209,9 @@ export function getStrike(db: Db, workshopId: string, strikeId: string): StrikeD
     Object.assign(labels, specLabels(spec, stored.strikes[0]?.partials ?? []));
   }
   const fundamentalLabel = spec.partials.find((p) => p.isFundamental)?.label;
+  const voided = voidsByUnit(db, [u.id]).get(u.id)?.find((v) => v.strikeId === row.id);
   return {
-    ...toSummary(row, by, fundamentalOf(result, labels, fundamentalLabel)),
+    ...toSummary(row, by, fundamentalOf(result, labels, fundamentalLabel), voided),
     analyserVersion: m?.analyserVersion ?? null,
     bitsPerSample: row.bitsPerSample,
     encoding: row.encoding,
@@ -230,12 +246,15 @@ export function getUnit(db: Db, workshopId: string, unitId: string): UnitDetail 
       ? db.select({ strikeId: measurement.strikeId, result: measurement.result }).from(measurement).where(inArray(measurement.strikeId, rows.map((r) => r.s.id))).all().map((m) => [m.strikeId, m.result as AnalysisResult])
       : [],
   );
+  const voids = new Map((voidsByUnit(db, [unitId]).get(unitId) ?? []).map((v) => [v.strikeId, v]));
   const strikes = rows.map(({ s, by }) => {
     const result = results.get(s.id) ?? null;
     const labels = result ? specLabels(spec, result.strikes[0]?.partials ?? []) : {};
-    return toSummary(s, by?.id ? by : null, fundamentalOf(result, labels, fundamentalLabel));
+    return toSummary(s, by?.id ? by : null, fundamentalOf(result, labels, fundamentalLabel), voids.get(s.id));
   });
-  const ev: EvaluationView | null = latestEvaluations(db, [unitId]).get(unitId) ?? null;
+  const evals = latestEvaluations(db, [unitId]);
+  const ev: EvaluationView | null = evals.get(unitId) ?? null;
+  const standing = standingDispositions(db, [unitId], evals).get(unitId) ?? null;
   const dispositions = db
     .select({ d: disposition, by: { id: user.id, name: user.name } })
     .from(disposition)
@@ -243,7 +262,10 @@ export function getUnit(db: Db, workshopId: string, unitId: string): UnitDetail 
     .where(eq(disposition.unitId, unitId))
     .orderBy(desc(disposition.createdAt))
     .all()
-    .map(({ d, by }) => ({ id: d.id, decision: d.decision, reason: d.reason, at: d.createdAt.toISOString(), by: by?.id ? by : null, evaluationId: d.evaluationId }));
+    .map(({ d, by }) => ({ id: d.id, decision: d.decision, reason: d.reason, at: d.createdAt.toISOString(), by: by?.id ? by : null, evaluationId: d.evaluationId, supersedesId: d.supersedesId }));
+  const supersededBy = new Map(dispositions.flatMap((d) => (d.supersedesId ? [[d.supersedesId, d.id] as const] : [])));
+  const standingCert = certifiability(db, b, [u]).get(u.id)!;
+  const certification: UnitDetail["certification"] = standingCert.eligible ? { eligible: true, reason: null, concession: standingCert.concession } : { eligible: false, reason: standingCert.reason, concession: null };
   return {
     id: u.id,
     serial: u.serial,
@@ -254,32 +276,57 @@ export function getUnit(db: Db, workshopId: string, unitId: string): UnitDetail 
     spec: { id: spec.specId, name: spec.name, version: spec.version, versionId: spec.id, family: spec.family },
     strikes,
     evaluation: ev,
-    dispositions,
+    dispositions: dispositions.map((d) => ({ ...d, supersededById: supersededBy.get(d.id) ?? null })),
+    standingDispositionId: standing?.id ?? null,
+    certification,
     nextUnit: nextUnmeasured(db, b.id, u.id),
   };
 }
 
-/** The first unit of the batch (in order) with no strike yet, other than `exceptId`. */
+/** The first unit of the batch (in order) with no strike yet (voided ones aside), other than `exceptId`. */
 export function nextUnmeasured(db: Db, batchId: string, exceptId?: string): { id: string; serial: string } | null {
   const units = db.select({ id: unit.id, serial: unit.serial }).from(unit).where(eq(unit.batchId, batchId)).orderBy(asc(unit.position)).all();
   const struck = new Set(
-    units.length ? db.select({ unitId: strike.unitId }).from(strike).where(inArray(strike.unitId, units.map((u) => u.id))).all().map((s) => s.unitId) : [],
+    units.length
+      ? db
+          .select({ unitId: strike.unitId })
+          .from(strike)
+          .leftJoin(strikeVoid, eq(strikeVoid.strikeId, strike.id))
+          .where(and(inArray(strike.unitId, units.map((u) => u.id)), isNull(strikeVoid.id)))
+          .all()
+          .map((s) => s.unitId)
+      : [],
   );
   return units.find((u) => u.id !== exceptId && !struck.has(u.id)) ?? null;
 }
 
-export function recordDisposition(db: Db, sqlite: Sqlite, actor: Actor, unitId: string, input: { decision: typeof disposition.$inferInsert.decision; reason: string }) {
-  const u = findUnit(db, actor.workshopId, unitId);
-  const b = db.select().from(batch).where(eq(batch.id, u.batchId)).get()!;
-  if (b.state === "released") throw conflict(`Batch ${b.code} is released; dispositions can no longer change.`);
-  const ev = latestEvaluations(db, [unitId]).get(unitId);
-  if (!ev) throw conflict(`Unit ${u.serial} has no evaluation yet; measure it first.`);
-  if (ev.verdict === "within_tolerance") throw conflict(`Unit ${u.serial} is within tolerance; a disposition is only for units out of tolerance or inconclusive.`);
+/**
+ * Takes a strike out of the record: a void row with its reason, chained and audited, and a new
+ * evaluation of the unit from the strikes that remain, all in one transaction. The maker who
+ * uploaded the strike may void it, quality anyone's; never on a released batch, never twice.
+ */
+export function voidStrike(db: Db, sqlite: Sqlite, actor: Actor & { role: RoleName }, strikeId: string, reason: string): UnitDetail {
+  const s = db.select().from(strike).where(and(eq(strike.id, strikeId), eq(strike.workshopId, actor.workshopId))).get();
+  if (!s) throw notFound("That strike");
+  if (s.uploadedBy !== actor.userId && !can(actor.role, "strike", "void-others")) {
+    throw forbidden("Only the maker who uploaded this strike, or quality, can void it.");
+  }
+  const u = findUnit(db, actor.workshopId, s.unitId);
+  const b = findBatch(db, actor.workshopId, u.batchId);
+  if (b.state === "released") throw conflict(`Batch ${b.code} is released; its strikes can no longer be voided.`);
   const id = randomUUID();
   db.transaction((tx) => {
-    tx.insert(disposition).values({ id, workshopId: actor.workshopId, unitId, evaluationId: ev.id, decision: input.decision, reason: input.reason, decidedBy: actor.userId }).run();
-    appendToChain(sqlite, actor.workshopId, "disposition", id);
-    audit(tx, actor, "unit.disposition", "unit", unitId, { after: { dispositionId: id, decision: input.decision, reason: input.reason, evaluationId: ev.id } });
+    const earlier = tx.select().from(strikeVoid).where(eq(strikeVoid.strikeId, strikeId)).get();
+    if (earlier) {
+      throw conflict(`Strike "${s.originalName}" was already voided on ${earlier.createdAt.toISOString().slice(0, 16).replace("T", " ")} UTC (${earlier.reason}). A void cannot be undone: upload the recording again if it belongs to this unit.`);
+    }
+    tx.insert(strikeVoid).values({ id, workshopId: actor.workshopId, strikeId, unitId: u.id, reason, voidedBy: actor.userId }).run();
+    appendToChain(sqlite, actor.workshopId, "strike_void", id);
+    audit(tx, actor, "strike.void", "strike", strikeId, { after: { voidId: id, unitId: u.id, originalName: s.originalName, reason } });
+    // Only an analysed strike entered the evaluation; voiding a failed or waiting one changes no verdict.
+    if (tx.select({ id: measurement.id }).from(measurement).where(eq(measurement.strikeId, strikeId)).get()) {
+      evaluateAndRecord(tx as unknown as Db, sqlite, actor.workshopId, u.id);
+    }
   });
-  return getUnit(db, actor.workshopId, unitId);
+  return getUnit(db, actor.workshopId, u.id);
 }

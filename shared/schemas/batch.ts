@@ -2,6 +2,7 @@
 import { z } from "zod";
 import type { Family } from "./spec.ts";
 import type { EvaluationView, Verdict } from "./evaluation.ts";
+import { reasonSchema } from "./reason.ts";
 
 export const batchStates = ["open", "in_review", "released"] as const;
 export type BatchState = (typeof batchStates)[number];
@@ -76,9 +77,13 @@ export type LedgerRow = {
   /** The fundamental's T60 was marked unreliable in a strike (not exponential, too short, masked by the room). */
   t60Unreliable: boolean;
   q: number | null;
-  disposition: { decision: DispositionDecision; reason: string; at: string; by: string } | null;
+  disposition: { id: string; decision: DispositionDecision; reason: string; at: string; by: string } | null;
   /** True when the unit still needs measuring, a verdict or a disposition before release. */
   open: boolean;
+  /** Why the verdict is not within tolerance, a few words per reason ("Fundamental T60 17.3 s < 20 s minimum"). */
+  why: string[];
+  /** Strikes taken out of the record (not counted in `strikes`, not evaluated). */
+  voidedStrikes: number;
 };
 
 export type BatchStatistics = {
@@ -110,7 +115,7 @@ export const dispositionLabels: Record<DispositionDecision, string> = {
 
 export const dispositionInputSchema = z.object({
   decision: z.enum(dispositionDecisions, { error: "Choose a decision" }),
-  reason: z.string().trim().min(3, "Say why, in a few words").max(2000),
+  reason: reasonSchema,
 });
 export type DispositionInput = z.infer<typeof dispositionInputSchema>;
 

@@ -75,6 +75,22 @@ export const certificateResultSchema = z.object({
 });
 export type CertificateResult = z.infer<typeof certificateResultSchema>;
 
+/**
+ * A unit released as it is although it departs from the specification (a use-as-is disposition):
+ * what it departs from, the reason QA recorded and when. ISO/IEC 17025:2017 §7.8.6 asks that the
+ * statement of conformity says what it applies to, so the certificate names each departure.
+ */
+export const concessionSchema = z.object({
+  departures: z.array(text("A departure")).min(1, "A concession names at least one departure from the specification."),
+  reason: text("The concession's reason"),
+  decidedAt: isoDateTime,
+});
+export type Concession = z.infer<typeof concessionSchema>;
+
+/** Set only when a withdrawn certificate is shown again: the mark is not part of what was signed. */
+export const withdrawnMarkSchema = z.object({ at: isoDateTime, reason: text("The withdrawal reason") });
+export type WithdrawnMark = z.infer<typeof withdrawnMarkSchema>;
+
 export const certificateDataSchema = z.object({
   /** The certificate's unique number, printed on every page. */
   number: text("The certificate number").max(64),
@@ -127,12 +143,16 @@ export const certificateDataSchema = z.object({
   decisionRule: decisionRuleSchema,
   verdict: verdictSchema,
   statementOfConformity: text("The statement of conformity"),
+  /** Set for a unit released under a concession (use as is); the statement of conformity says so too. */
+  concession: concessionSchema.nullable().optional(),
   authorisedBy: z.object({ name: text("The authoriser's name"), role: text("The authoriser's role") }),
   authorisedAt: isoDateTime,
   flags: z.object({
     /** Clinical or laboratory fork: the certificate adds that it states measurements only, no fitness for diagnosis. */
     measurementOnlyCaution: z.boolean(),
   }),
+  /** When and why the certificate was withdrawn; the PDF then carries a WITHDRAWN mark. Never signed. */
+  withdrawn: withdrawnMarkSchema.nullable().optional(),
 });
 export type CertificateData = z.infer<typeof certificateDataSchema>;
 
@@ -156,6 +176,11 @@ export const decisionRuleWords: Record<DecisionRule, string> = {
     "Guarded acceptance: a line passes only when |deviation| + U ≤ tolerance, fails when |deviation| − U > tolerance, and is inconclusive otherwise (U = expanded uncertainty, k = 2).",
 };
 
+/** The sentence a concession adds to the statement of conformity: what it departs from, and why it was accepted. */
+export function concessionStatement(c: Concession): string {
+  return `The item was released as it is under a concession recorded by the workshop on ${c.decidedAt.slice(0, 10)}. It departs from the specification in: ${c.departures.join("; ")}. Reason recorded: ${c.reason}`;
+}
+
 /**
  * A default statement of conformity for the verdict, in our own words; the issuing service may
  * store its own text, which the certificate then prints as given.
@@ -171,3 +196,30 @@ export function defaultStatementOfConformity(verdict: Verdict, rule: DecisionRul
       return `No required partial was found outside the tolerance of ${under}, but for at least one the measurement uncertainty does not allow a decision. Conformity can neither be confirmed nor ruled out.`;
   }
 }
+
+/** The state of a certificate's e-mail, as the lists show it. */
+export type CertificateMailSummary = { id: string; state: "sending" | "sent" | "failed"; error: string | null; attempts: number };
+
+/** What every certificate list shows of a certificate, unit or batch. */
+export type CertificateSummaryBase = {
+  id: string;
+  number: string;
+  issuedAt: string;
+  recipientEmail: string;
+  recipientName: string | null;
+  verifyUrl: string;
+  pdfSha256: string;
+  /** When, why and by whom it was withdrawn (the workshop's own lists name the person). */
+  withdrawn: { at: string; reason: string; by: string | null } | null;
+  mail: CertificateMailSummary | null;
+};
+
+/** A unit's certificate in the unit's list. */
+export type CertificateSummary = CertificateSummaryBase & {
+  verdict: Verdict;
+  /** Issued for a unit released under a concession (the certificate states it). */
+  concession: boolean;
+  amends: string | null;
+  supersededBy: string | null;
+  state: "current" | "superseded" | "withdrawn";
+};

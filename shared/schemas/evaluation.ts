@@ -78,5 +78,7 @@ export type EvaluationView = {
   guidance: TuningGuidance | null;
   /** Instrument tolerances (half-widths, rectangular) that entered the uncertainties. */
   assumptions?: { clockHalfWidthPpm: number; thermometerHalfWidthC?: number };
+  /** The strikes this evaluation was made from (absent in evaluations recorded before voids existed). */
+  strikeIds?: string[];
   createdAt: string;
 };

@@ -3,6 +3,7 @@ import { z } from "zod";
 import type { AnalysisResult } from "./analysis.ts";
 import type { DispositionDecision, BatchState } from "./batch.ts";
 import type { EvaluationView } from "./evaluation.ts";
+import type { Concession } from "./certificate.ts";
 import { supports, type Family, type Support } from "./spec.ts";
 
 export const strikeStates = ["queued", "analysing", "done", "failed"] as const;
@@ -44,6 +45,8 @@ export type StrikeSummary = {
   durationS: number | null;
   /** The fundamental found (lowest required partial matched), for lists. */
   fundamentalHz: number | null;
+  /** Set when the strike was taken out of the record: it stays listed, struck through, and is not evaluated. */
+  voided: { at: string; reason: string; by: { id: string; name: string } | null } | null;
 };
 
 export type StrikeDetail = StrikeSummary & {
@@ -71,9 +74,25 @@ export type UnitDetail = {
   spec: { id: string; name: string; version: number; versionId: string; family: Family };
   strikes: StrikeSummary[];
   evaluation: EvaluationView | null;
-  dispositions: { id: string; decision: DispositionDecision; reason: string; at: string; by: { id: string; name: string } | null; evaluationId: string | null }[];
+  dispositions: {
+    id: string;
+    decision: DispositionDecision;
+    reason: string;
+    at: string;
+    by: { id: string; name: string } | null;
+    evaluationId: string | null;
+    /** The disposition this one replaced, and the one that replaced this (null when it still stands). */
+    supersedesId: string | null;
+    supersededById: string | null;
+  }[];
+  /** The disposition that decides the unit now: on its latest evaluation and not superseded. */
+  standingDispositionId: string | null;
+  /** Whether a certificate may be issued for the unit now, and if not, why (in words). */
+  certification: UnitCertification;
   /** Serial of the next unit of the batch still to be measured, for the quick path. */
   nextUnit: { id: string; serial: string } | null;
 };
+
+export type UnitCertification = { eligible: true; reason: null; concession: Concession | null } | { eligible: false; reason: string; concession: null };
 
 export type UploadAccepted = { id: string; state: StrikeState; unitId: string; serial: string };

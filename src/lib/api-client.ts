@@ -99,6 +99,23 @@ export const api = {
   post: async <T>(url: string, body: unknown = {}, options: RequestOptions = {}) => json<T>(await send("POST", url, body, options, "application/json")),
   /** For endpoints that answer a JSON request with a file (a certificate preview PDF). */
   postForBlob: async (url: string, body: unknown = {}, accept = "application/pdf", options: RequestOptions = {}) => (await send("POST", url, body, options, `${accept}, application/json`)).blob(),
+  /**
+   * For endpoints that answer with one JSON value per line as the work goes on (NDJSON): calls
+   * `onLine` for each as it arrives. A refusal before the work starts is an ApiError as usual.
+   */
+  postLines: async <T>(url: string, body: unknown, onLine: (value: T) => void, options: RequestOptions = {}) => {
+    const response = await send("POST", url, body, options, "application/x-ndjson, application/json");
+    const reader = response.body!.pipeThrough(new TextDecoderStream()).getReader();
+    let buffered = "";
+    for (;;) {
+      const { value, done } = await reader.read();
+      buffered += value ?? "";
+      const lines = buffered.split("\n");
+      buffered = done ? "" : lines.pop()!;
+      for (const line of lines) if (line.trim()) onLine(JSON.parse(line) as T);
+      if (done) return;
+    }
+  },
   put: async <T>(url: string, body: unknown = {}, options: RequestOptions = {}) => json<T>(await send("PUT", url, body, options, "application/json")),
   patch: async <T>(url: string, body: unknown = {}, options: RequestOptions = {}) => json<T>(await send("PATCH", url, body, options, "application/json")),
   delete: async <T>(url: string, options: RequestOptions = {}) => json<T>(await send("DELETE", url, undefined, options, "application/json")),

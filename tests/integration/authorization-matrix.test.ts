@@ -9,11 +9,11 @@
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { apiRouters } from "../../server/app.ts";
-import { batch, mailMessage, spec, unit } from "../../server/db/schema.ts";
+import { batch, disposition, mailMessage, spec, unit } from "../../server/db/schema.ts";
 import { ORIGIN, startTestApp, type TestApp, type Who } from "../support/app.ts";
 import { toneWav } from "../support/wav.ts";
 
-type Ids = { spec: string; batch: string; openBatch: string; unit: string; releasedUnit: string; strike: string; mail: string; certificateMail: string; invitation: string; certificate: string; verifyCode: string };
+type Ids = { spec: string; batch: string; openBatch: string; unit: string; releasedUnit: string; strike: string; mail: string; certificateMail: string; invitation: string; certificate: string; verifyCode: string; disposition: string };
 type Row = {
   method: "GET" | "POST" | "PUT" | "PATCH" | "DELETE";
   path: string;
@@ -34,9 +34,10 @@ export const MATRIX: Row[] = [
   { method: "PUT", path: "/workshop/profile", url: () => "/api/workshop/profile", body: { certificatePrefix: "lower case" }, expect: [401, 403, 403, 400, 400] },
   { method: "GET", path: "/dashboard", url: () => "/api/dashboard", expect: [401, 200, 200, 200, 200] },
   { method: "GET", path: "/audit", url: () => "/api/audit", expect: [401, 403, 200, 200, 200] },
-  { method: "GET", path: "/mail", url: () => "/api/mail", expect: [401, 403, 403, 200, 200] },
-  { method: "GET", path: "/mail/:id/html", url: (i) => `/api/mail/${i.mail}/html`, expect: [401, 403, 403, 200, 404] },
-  { method: "GET", path: "/mail/:id/attachments/:index", url: (i) => `/api/mail/${i.certificateMail}/attachments/0`, expect: [401, 403, 403, 200, 404] },
+  // Quality reads the certificate mails only: an invitation is not found for it.
+  { method: "GET", path: "/mail", url: () => "/api/mail", expect: [401, 403, 200, 200, 200] },
+  { method: "GET", path: "/mail/:id/html", url: (i) => `/api/mail/${i.mail}/html`, expect: [401, 403, 404, 200, 404] },
+  { method: "GET", path: "/mail/:id/attachments/:index", url: (i) => `/api/mail/${i.certificateMail}/attachments/0`, expect: [401, 403, 200, 200, 404] },
   { method: "GET", path: "/specs", url: () => "/api/specs", expect: [401, 200, 200, 200, 200] },
   { method: "POST", path: "/specs", url: () => "/api/specs", body: {}, expect: [401, 403, 400, 400, 400] },
   { method: "GET", path: "/specs/:id", url: (i) => `/api/specs/${i.spec}`, expect: [401, 200, 200, 200, 404] },
@@ -65,6 +66,17 @@ export const MATRIX: Row[] = [
   // Re-sends the e-mail (harmless: the capture server receives it).
   { method: "POST", path: "/certificates/:number/send", url: (i) => `/api/certificates/${i.certificate}/send`, expect: [401, 403, 200, 200, 404] },
   { method: "GET", path: "/verify/:code", url: (i) => `/api/verify/${i.verifyCode}`, expect: [200, 200, 200, 200, 200] },
+  { method: "POST", path: "/certificates/:number/withdraw", url: (i) => `/api/certificates/${i.certificate}/withdraw`, body: { reason: "x" }, expect: [401, 403, 400, 400, 404] },
+  // The maker who uploaded the strike may void it, quality anyone's: a reason too short is refused for all.
+  { method: "POST", path: "/strikes/:id/void", url: (i) => `/api/strikes/${i.strike}/void`, body: { reason: "no" }, expect: [401, 400, 400, 400, 404] },
+  { method: "POST", path: "/dispositions/:id/supersede", url: (i) => `/api/dispositions/${i.disposition}/supersede`, body: {}, expect: [401, 403, 400, 400, 404] },
+  { method: "POST", path: "/batches/:id/dispositions", url: (i) => `/api/batches/${i.openBatch}/dispositions`, body: {}, expect: [401, 403, 400, 400, 404] },
+  { method: "GET", path: "/batches/:id/unit-certificates", url: (i) => `/api/batches/${i.batch}/unit-certificates`, expect: [401, 200, 200, 200, 404] },
+  // The open batch is not released: the whole run is refused before anything is issued.
+  { method: "POST", path: "/batches/:id/unit-certificates", url: (i) => `/api/batches/${i.openBatch}/unit-certificates`, expect: [401, 403, 409, 409, 404] },
+  { method: "GET", path: "/batches/:id/certificates", url: (i) => `/api/batches/${i.batch}/certificates`, expect: [401, 200, 200, 200, 404] },
+  { method: "POST", path: "/batches/:id/certificates", url: (i) => `/api/batches/${i.batch}/certificates`, body: {}, expect: [401, 403, 400, 400, 404] },
+  { method: "GET", path: "/search", url: () => "/api/search?q=F-00", expect: [401, 200, 200, 200, 200] },
 ];
 
 /** Every route the API routers declare, as "METHOD /path", with the guard mark of its first handler. */
@@ -126,6 +138,7 @@ beforeAll(async () => {
     invitation: inv.body.id,
     certificate: cert.body.number,
     verifyCode: cert.body.verifyUrl.split("/").pop(),
+    disposition: db.select().from(disposition).get()!.id,
   };
   for (const who of WHO) await t.as(who);
 });

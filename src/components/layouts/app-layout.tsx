@@ -8,6 +8,8 @@ export type NavItem = { to: string; label: string; end?: boolean; note?: string 
 type Props = {
   nav: NavItem[];
   switcher: ReactNode;
+  /** The workshop search box, under the switcher. */
+  search?: ReactNode;
   account: ReactNode;
   children: ReactNode;
 };
@@ -16,7 +18,7 @@ type Props = {
  * The signed-in frame: a rail on wide screens (tablet landscape and up), a top bar with the same
  * links on narrow ones. A skip link jumps past the navigation for keyboard users.
  */
-export function AppLayout({ nav, switcher, account, children }: Props) {
+export function AppLayout({ nav, switcher, search, account, children }: Props) {
   return (
     <div className="app-shell min-h-dvh bg-canvas md:grid md:grid-cols-[var(--spacing-rail)_1fr]">
       <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-10 focus:rounded-control focus:bg-surface focus:px-4 focus:py-2">
@@ -29,6 +31,7 @@ export function AppLayout({ nav, switcher, account, children }: Props) {
           <Wordmark />
         </div>
         <div className="px-gutter pt-4">{switcher}</div>
+        {search ? <div className="no-print px-gutter pt-3">{search}</div> : null}
         <nav aria-label="Main" className="px-3 py-3 md:flex-1 md:overflow-y-auto">
           <ul className="flex flex-wrap gap-1 md:flex-col">
             {nav.map((item) => (

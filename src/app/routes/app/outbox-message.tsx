@@ -14,7 +14,7 @@ const notFound = () => new ApiError(404, "not_found", "This message is not in th
 
 export const outboxMessageLoader = (queryClient: QueryClient) => async ({ request, params }: LoaderFunctionArgs) => {
   const me = await requireWorkshop(queryClient, request);
-  assertCan(me, "mail", "read", "reading the outbox");
+  assertCan(me, "mail", "read-certificates", "reading the outbox");
   const messages = await queryClient.ensureQueryData(getMailQueryOptions(me.activeWorkshop.id));
   if (!messages.some((message) => message.id === params.id)) throw notFound();
   return null;

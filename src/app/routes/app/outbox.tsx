@@ -1,5 +1,6 @@
 import type { QueryClient } from "@tanstack/react-query";
 import type { LoaderFunctionArgs } from "react-router";
+import { can } from "@shared/permissions";
 import { ButtonLink } from "@/components/ui/button";
 import { PageHeader, Panel } from "@/components/ui/panel";
 import { paths } from "@/config/paths";
@@ -11,24 +12,29 @@ import { useSignedInMe } from "@/app/use-signed-in-me";
 
 export const outboxLoader = (queryClient: QueryClient) => async ({ request }: LoaderFunctionArgs) => {
   const me = await requireWorkshop(queryClient, request);
-  assertCan(me, "mail", "read", "reading the outbox");
+  assertCan(me, "mail", "read-certificates", "reading the outbox");
   await queryClient.ensureQueryData(getMailQueryOptions(me.activeWorkshop.id));
   return null;
 };
 
 export function OutboxRoute() {
   const me = useSignedInMe();
+  const all = can(me.activeWorkshop.role, "mail", "read");
   return (
     <>
       <PageHeader
         title="Outbox"
-        description="Every e-mail Tinelog has sent for this workshop. In development the mail is captured here instead of being delivered."
+        description={
+          all
+            ? "Every e-mail Tinelog has sent for this workshop. In development the mail is captured here instead of being delivered."
+            : "The certificate e-mails sent for this workshop, and the notices of withdrawn certificates. Invitations are the owner's to read."
+        }
       />
       <Panel>
         <MailList
           workshopId={me.activeWorkshop.id}
           messageHref={paths.app.outboxMessage.getHref}
-          emptyAction={<ButtonLink to={paths.app.members.getHref()}>Invite a member</ButtonLink>}
+          emptyAction={all ? <ButtonLink to={paths.app.members.getHref()}>Invite a member</ButtonLink> : undefined}
         />
       </Panel>
     </>

@@ -5,6 +5,7 @@ import { AppLayout, type NavItem } from "@/components/layouts/app-layout";
 import { Button } from "@/components/ui/button";
 import { Badge } from "@/components/ui/panel";
 import { paths } from "@/config/paths";
+import { SearchBox } from "@/features/search/components/search-box";
 import { WorkshopSwitcher } from "@/features/workshops/components/workshop-switcher";
 import { useSignOut } from "@/lib/auth";
 import { requireWorkshop } from "@/app/loaders";
@@ -21,7 +22,7 @@ function navFor(role: RoleName): NavItem[] {
   if (can(role, "batch", "read")) items.push({ to: paths.app.batches.getHref(), label: "Batches" });
   if (can(role, "spec", "read")) items.push({ to: paths.app.specifications.getHref(), label: "Specifications" });
   if (can(role, "member", "create")) items.push({ to: paths.app.members.getHref(), label: "Members" });
-  if (can(role, "mail", "read")) items.push({ to: paths.app.outbox.getHref(), label: "Outbox" });
+  if (can(role, "mail", "read-certificates")) items.push({ to: paths.app.outbox.getHref(), label: "Outbox" });
   if (can(role, "workshop", "update")) items.push({ to: paths.app.settings.getHref(), label: "Settings" });
   return items;
 }
@@ -43,6 +44,7 @@ export function AppRoot() {
           onSwitched={() => navigate(paths.app.dashboard.getHref())}
         />
       }
+      search={can(role, "batch", "read") ? <SearchBox workshopId={me.activeWorkshop.id} hrefs={{ unit: paths.app.unit.getHref, batch: paths.app.batch.getHref }} /> : undefined}
       account={
         <div className="flex flex-wrap items-center justify-between gap-3 md:flex-col md:items-stretch">
           <div className="min-w-0">

@@ -17,7 +17,7 @@ export function BatchActions({ workshopId, batch, role }: { workshopId: string; 
   if (batch.state === "released") {
     return (
       <Alert tone="success" title={`Released ${batch.releasedAt ? formatDateTime(batch.releasedAt) : ""}`}>
-        {batch.releasedBy ? `By ${batch.releasedBy.name}. ` : ""}No more strikes can be added; certificates can be issued from each unit's page.
+        {batch.releasedBy ? `By ${batch.releasedBy.name}. ` : ""}No more strikes can be added; certificates are issued below, or from each unit's page.
       </Alert>
     );
   }

@@ -1,16 +1,26 @@
 import type { ReactNode } from "react";
 import { Link } from "react-router";
-import type { BatchSummary } from "@shared/schemas/batch";
+import { batchStateLabels, batchStates, type BatchSummary } from "@shared/schemas/batch";
+import { Button } from "@/components/ui/button";
+import { InputField, SelectField } from "@/components/ui/field";
 import { Alert } from "@/components/ui/alert";
 import { EmptyState } from "@/components/ui/panel";
 import { Spinner } from "@/components/ui/spinner";
 import { BatchStateBadge } from "@/components/ui/status-badges";
 import { formatDate } from "@/lib/format";
 import { useBatches } from "../api/get-batches";
+import { applyFilters, hasFilters, type BatchFilters } from "../lib/batch-filters";
 
-type Props = { workshopId: string; batchHref: (id: string) => string; emptyAction?: ReactNode };
+type Props = {
+  workshopId: string;
+  batchHref: (id: string) => string;
+  emptyAction?: ReactNode;
+  /** The filters in force (kept in the page address by the route) and how to change them. */
+  filters: BatchFilters;
+  onFiltersChange: (filters: BatchFilters) => void;
+};
 
-export function BatchesList({ workshopId, batchHref, emptyAction }: Props) {
+export function BatchesList({ workshopId, batchHref, emptyAction, filters, onFiltersChange }: Props) {
   const batches = useBatches(workshopId);
   if (batches.isPending) return <Spinner label="Loading batches…" />;
   if (batches.isError) return <Alert tone="error">{batches.error.message}</Alert>;
@@ -21,7 +31,51 @@ export function BatchesList({ workshopId, batchHref, emptyAction }: Props) {
       </EmptyState>
     );
   }
-  return <BatchesTable batches={batches.data} batchHref={batchHref} />;
+  const shown = applyFilters(batches.data, filters);
+  const specs = [...new Map(batches.data.map((b) => [b.spec.id, b.spec.name])).entries()].sort((a, b) => a[1].localeCompare(b[1]));
+  return (
+    <div className="flex flex-col gap-4">
+      <FilterBar filters={filters} specs={specs} onChange={onFiltersChange} />
+      <p className="text-caption text-ink-soft" aria-live="polite">
+        {hasFilters(filters) ? `${shown.length} of ${batches.data.length} batches match.` : `${batches.data.length} batches.`}
+      </p>
+      {shown.length ? (
+        <BatchesTable batches={shown} batchHref={batchHref} />
+      ) : (
+        <EmptyState title="No batch matches these filters" action={<Button variant="secondary" onClick={() => onFiltersChange({ state: null, spec: null, from: null, to: null })}>Clear the filters</Button>} />
+      )}
+    </div>
+  );
+}
+
+function FilterBar({ filters, specs, onChange }: { filters: BatchFilters; specs: [string, string][]; onChange: (f: BatchFilters) => void }) {
+  return (
+    <form aria-label="Filter batches" className="grid gap-3 sm:grid-cols-2 lg:grid-cols-[10rem_1fr_10rem_10rem_auto] lg:items-end" onSubmit={(e) => e.preventDefault()}>
+      <SelectField label="State" value={filters.state ?? ""} onChange={(e) => onChange({ ...filters, state: (e.target.value || null) as BatchFilters["state"] })}>
+        <option value="">Any state</option>
+        {batchStates.map((s) => (
+          <option key={s} value={s}>
+            {batchStateLabels[s]}
+          </option>
+        ))}
+      </SelectField>
+      <SelectField label="Specification" value={filters.spec ?? ""} onChange={(e) => onChange({ ...filters, spec: e.target.value || null })}>
+        <option value="">Any specification</option>
+        {specs.map(([id, name]) => (
+          <option key={id} value={id}>
+            {name}
+          </option>
+        ))}
+      </SelectField>
+      <InputField label="Created from" type="date" value={filters.from ?? ""} onChange={(e) => onChange({ ...filters, from: e.target.value || null })} />
+      <InputField label="Created until" type="date" value={filters.to ?? ""} onChange={(e) => onChange({ ...filters, to: e.target.value || null })} />
+      {hasFilters(filters) ? (
+        <Button variant="quiet" onClick={() => onChange({ state: null, spec: null, from: null, to: null })}>
+          Clear
+        </Button>
+      ) : null}
+    </form>
+  );
 }
 
 export function BatchesTable({ batches, batchHref }: { batches: BatchSummary[]; batchHref: (id: string) => string }) {

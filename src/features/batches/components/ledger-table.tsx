@@ -1,10 +1,12 @@
 /**
  * The batch ledger: one row per unit with its latest evaluation (TanStack Table for sorting and
- * filtering). The filter is the QA view: units out of tolerance, or every unit still open.
+ * filtering). The filter is the QA view: units out of tolerance, or every unit still open. QA may
+ * select units awaiting a decision (a checkbox each, shift-click for a range in the order shown)
+ * and record one disposition for all of them.
  */
 import { createColumnHelper, flexRender, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
 import clsx from "clsx";
-import { useEffect, useMemo, useState } from "react";
+import { useEffect, useMemo, useRef, useState, type MouseEvent } from "react";
 import { flushSync } from "react-dom";
 import { Link } from "react-router";
 import type { LedgerRow } from "@shared/schemas/batch";
@@ -12,6 +14,7 @@ import { t60ExtrapolatedFrom } from "@shared/physics";
 import { EmptyState } from "@/components/ui/panel";
 import { DispositionBadge, VerdictBadge } from "@/components/ui/status-badges";
 import { formatCents, formatNumber } from "@/lib/format";
+import { BulkDispositionForm } from "./bulk-disposition-form";
 
 export type LedgerFilter = "all" | "out_of_tolerance" | "open";
 const filterLabels: Record<LedgerFilter, string> = { all: "All units", out_of_tolerance: "Out of tolerance", open: "Open" };
@@ -26,12 +29,26 @@ const column = createColumnHelper<LedgerRow>();
 const FIRST_ROWS = 250;
 const verdictOrder = { out_of_tolerance: 0, inconclusive: 1, within_tolerance: 2 } as const;
 
-type Props = { rows: LedgerRow[]; unitHref: (id: string) => string; toleranceCents: number | null };
+type Props = {
+  rows: LedgerRow[];
+  unitHref: (id: string) => string;
+  toleranceCents: number | null;
+  /** Given when the signed-in member may record dispositions on this (unreleased) batch. */
+  bulk?: { workshopId: string; batchId: string };
+};
 
-export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
+/** A unit can take a first disposition: measured, analysed, not within tolerance, no standing decision. */
+const awaitsDecision = (row: LedgerRow) => row.open && row.pendingStrikes === 0 && row.disposition === null && (row.verdict === "out_of_tolerance" || row.verdict === "inconclusive");
+
+export function LedgerTable({ rows, unitHref, toleranceCents, bulk }: Props) {
   const [filter, setFilter] = useState<LedgerFilter>("all");
   const [sorting, setSorting] = useState<SortingState>([]);
   const [limit, setLimit] = useState(FIRST_ROWS);
+  const [selected, setSelected] = useState<Set<string>>(new Set());
+  const lastClicked = useRef<string | null>(null);
+  // A row that no longer awaits a decision (decided elsewhere, measured again) leaves the selection.
+  const selectable = useMemo(() => new Set(rows.filter(awaitsDecision).map((r) => r.id)), [rows]);
+  const chosen = rows.filter((r) => selected.has(r.id) && selectable.has(r.id));
 
   // The printed ledger is the whole ledger: draw every row before the browser lays out the print.
   useEffect(() => {
@@ -42,6 +59,28 @@ export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
 
   const columns = useMemo(
     () => [
+      ...(bulk
+        ? [
+            column.display({
+              id: "select",
+              header: () => <span className="sr-only">Select</span>,
+              cell: (info) => {
+                const row = info.row.original;
+                return (
+                  <input
+                    type="checkbox"
+                    className="no-print size-5 accent-steel-600 disabled:opacity-30"
+                    aria-label={`Select ${row.serial}`}
+                    disabled={!selectable.has(row.id)}
+                    checked={selected.has(row.id) && selectable.has(row.id)}
+                    onChange={() => undefined}
+                    onClick={(event) => toggle(row.id, event)}
+                  />
+                );
+              },
+            }),
+          ]
+        : []),
       column.accessor("serial", {
         header: "Serial",
         cell: (info) => (
@@ -53,7 +92,17 @@ export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
       column.accessor((row) => (row.verdict ? verdictOrder[row.verdict] : 3), {
         id: "verdict",
         header: "Verdict",
-        cell: (info) => <VerdictBadge verdict={info.row.original.verdict} />,
+        cell: (info) => {
+          const why = info.row.original.why;
+          return why.length ? (
+            <span title={why.join("; ")} className="cursor-help">
+              <VerdictBadge verdict={info.row.original.verdict} />
+              <span className="sr-only">: {why.join("; ")}</span>
+            </span>
+          ) : (
+            <VerdictBadge verdict={info.row.original.verdict} />
+          );
+        },
       }),
       column.accessor("fundamentalHz", { header: "Fundamental (Hz)", cell: (info) => formatNumber(info.getValue(), 3), meta: { numeric: true } }),
       column.accessor("deviationCents", {
@@ -103,7 +152,7 @@ export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
         },
       }),
     ],
-    [unitHref, toleranceCents],
+    [unitHref, toleranceCents, bulk, selected, selectable],
   );
 
   const data = useMemo(
@@ -111,6 +160,25 @@ export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
     [rows, filter],
   );
   const table = useReactTable({ data, columns, state: { sorting }, onSortingChange: setSorting, getCoreRowModel: getCoreRowModel(), getSortedRowModel: getSortedRowModel(), getRowId: (row) => row.id });
+  const shown = useRef<string[]>([]);
+  shown.current = table.getRowModel().rows.map((r) => r.id);
+
+  /** A click toggles one unit; a shift-click sets every unit between it and the last one clicked, in the order shown. */
+  function toggle(id: string, event: MouseEvent<HTMLInputElement>) {
+    const on = !selected.has(id);
+    const next = new Set(selected);
+    const order = shown.current;
+    const from = lastClicked.current ? order.indexOf(lastClicked.current) : -1;
+    const to = order.indexOf(id);
+    const range = event.shiftKey && from >= 0 && to >= 0 ? order.slice(Math.min(from, to), Math.max(from, to) + 1) : [id];
+    for (const r of range) {
+      if (!selectable.has(r)) continue;
+      if (on) next.add(r);
+      else next.delete(r);
+    }
+    lastClicked.current = id;
+    setSelected(next);
+  }
   const counts: Record<LedgerFilter, number> = {
     all: rows.length,
     out_of_tolerance: rows.filter((r) => r.verdict === "out_of_tolerance").length,
@@ -119,6 +187,13 @@ export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
 
   return (
     <div className="flex flex-col gap-3">
+      {bulk && chosen.length > 0 ? (
+        <BulkDispositionForm workshopId={bulk.workshopId} batchId={bulk.batchId} selected={chosen} onDone={() => setSelected(new Set())} onClear={() => setSelected(new Set())} />
+      ) : bulk && selectable.size > 1 ? (
+        <p className="no-print text-caption text-ink-soft">
+          Tick the units awaiting a decision (shift-click for a range) to record one disposition for all of them.
+        </p>
+      ) : null}
       <div role="group" aria-label="Show" className="no-print inline-flex flex-wrap self-start rounded-control border border-line-strong p-0.5">
         {(Object.keys(filterLabels) as LedgerFilter[]).map((option) => (
           <button

@@ -1,22 +1,9 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
-import type { Verdict } from "@shared/schemas/evaluation";
+import type { CertificateMailSummary, CertificateSummary } from "@shared/schemas/certificate";
 import { api } from "@/lib/api-client";
 
-export type CertificateMail = { id: string; state: "sending" | "sent" | "failed"; error: string | null; attempts: number };
-export type CertificateListItem = {
-  id: string;
-  number: string;
-  issuedAt: string;
-  recipientEmail: string;
-  recipientName: string | null;
-  verdict: Verdict;
-  verifyUrl: string;
-  pdfSha256: string;
-  amends: string | null;
-  supersededBy: string | null;
-  state: "current" | "superseded";
-  mail: CertificateMail | null;
-};
+export type CertificateMail = CertificateMailSummary;
+export type CertificateListItem = CertificateSummary;
 
 export async function getCertificates(unitId: string): Promise<CertificateListItem[]> {
   return (await api.get<{ certificates: CertificateListItem[] }>(`/api/units/${encodeURIComponent(unitId)}/certificates`)).certificates;

@@ -1,12 +1,13 @@
 /**
- * Certificates of a unit (issue 6): preview, issue, amend and re-send, with their state.
- * Issuing is for qa and owner once the batch is released; everyone in the workshop sees the list.
+ * Certificates of a unit: preview, issue, amend, re-send and withdraw, with their state.
+ * Issuing is for qa and owner once the batch is released and the unit's decision allows a
+ * certificate; everyone in the workshop sees the list.
  */
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useEffect, useState } from "react";
 import { useForm } from "react-hook-form";
 import { Link } from "react-router";
-import { issueCertificateSchema, type IssueCertificateInput } from "@shared/schemas/certificate";
+import { issueCertificateSchema, type Concession, type IssueCertificateInput } from "@shared/schemas/certificate";
 import { verdictLabels } from "@shared/schemas/evaluation";
 import { Alert } from "@/components/ui/alert";
 import { Button } from "@/components/ui/button";
@@ -15,23 +16,27 @@ import { Badge, EmptyState } from "@/components/ui/panel";
 import { Spinner } from "@/components/ui/spinner";
 import { isApiError } from "@/lib/api-client";
 import { applyServerErrors } from "@/lib/form-errors";
-import { formatDateTime } from "@/lib/format";
-import { certificatePdfHref, useCertificates, type CertificateListItem } from "../api/get-certificates";
+import { certificatesKey, useCertificates, type CertificateListItem } from "../api/get-certificates";
 import { useIssueCertificate } from "../api/issue-certificate";
 import { usePreviewCertificate } from "../api/preview-certificate";
-import { useResendCertificate } from "../api/resend-certificate";
+import { CertificateActions, IssuedTo, MailState, WithdrawnNote } from "./certificate-row-parts";
 
 type Props = {
   workshopId: string;
   unitId: string;
   customer: { name: string | null; email: string | null };
   canIssue: boolean;
-  /** Why issuing is not possible yet (batch not released, no evaluation), or null when it is. */
+  canWithdraw: boolean;
+  /** Why issuing is not possible (batch not released, scrapped, out of tolerance without a concession), or null when it is. */
   blockedReason: string | null;
+  /** The concession the unit is released under; its certificate states it. */
+  concession: Concession | null;
+  /** Whether the unit's batch is released. */
+  released: boolean;
   settingsHref?: string;
 };
 
-export function CertificatesPanel({ workshopId, unitId, customer, canIssue, blockedReason, settingsHref }: Props) {
+export function CertificatesPanel({ workshopId, unitId, customer, canIssue, canWithdraw, blockedReason, concession, released, settingsHref }: Props) {
   const certificates = useCertificates(workshopId, unitId);
   const [amending, setAmending] = useState<string | null>(null);
   const [issuing, setIssuing] = useState(false);
@@ -48,6 +53,11 @@ export function CertificatesPanel({ workshopId, unitId, customer, canIssue, bloc
   return (
     <div className="flex flex-col gap-5">
       {lastIssued ? <Alert tone="success">Certificate {lastIssued} issued; the e-mail to the recipient is listed below.</Alert> : null}
+      {concession && !blockedReason ? (
+        <Alert tone="caution" title="Released under a concession">
+          The certificate states it in its statement of conformity: departs in {concession.departures.join("; ")}. Reason recorded: {concession.reason}
+        </Alert>
+      ) : null}
       {canIssue ? (
         blockedReason ? (
           <Alert tone="info">{blockedReason}</Alert>
@@ -80,7 +90,11 @@ export function CertificatesPanel({ workshopId, unitId, customer, canIssue, bloc
         <Alert tone="error">{certificates.error.message}</Alert>
       ) : certificates.data.length === 0 ? (
         <EmptyState title="No certificates for this unit">
-          {canIssue ? "Once the batch is released, issue a certificate here: it is e-mailed to the customer as a PDF with a verification link." : "A quality member issues certificates once the batch is released."}
+          {released && blockedReason
+            ? "None has been issued."
+            : canIssue
+              ? `${released ? "Issue a certificate above" : "Once the batch is released, issue a certificate here"}: it is e-mailed to the customer as a PDF with a verification link.`
+              : "A quality member issues certificates once the batch is released."}
         </EmptyState>
       ) : (
         <ul aria-label="Certificates" className="divide-y divide-line rounded-control border border-line">
@@ -91,6 +105,7 @@ export function CertificatesPanel({ workshopId, unitId, customer, canIssue, bloc
               unitId={unitId}
               certificate={c}
               canIssue={canIssue}
+              canWithdraw={canWithdraw}
               onAmend={current.some((x) => x.number === c.number) && !blockedReason ? () => setAmending(c.number) : undefined}
             />
           ))}
@@ -220,51 +235,28 @@ function IssueForm({
   );
 }
 
-function CertificateRow({ workshopId, unitId, certificate: c, canIssue, onAmend }: { workshopId: string; unitId: string; certificate: CertificateListItem; canIssue: boolean; onAmend?: () => void }) {
-  const resend = useResendCertificate(workshopId, unitId);
+type RowProps = { workshopId: string; unitId: string; certificate: CertificateListItem; canIssue: boolean; canWithdraw: boolean; onAmend?: () => void };
+
+function CertificateRow({ workshopId, unitId, certificate: c, canIssue, canWithdraw, onAmend }: RowProps) {
   return (
     <li className="flex flex-col gap-2 px-4 py-3">
       <div className="flex flex-wrap items-center gap-2">
-        <span className="font-semibold">{c.number}</span>
-        {c.state === "current" ? <Badge tone="moss">Current</Badge> : <Badge>Superseded{c.supersededBy ? ` by ${c.supersededBy}` : ""}</Badge>}
+        <span className={c.state === "withdrawn" ? "font-semibold line-through" : "font-semibold"}>{c.number}</span>
+        {c.state === "current" ? <Badge tone="moss">Current</Badge> : c.state === "withdrawn" ? <Badge tone="rust">Withdrawn</Badge> : <Badge>Superseded{c.supersededBy ? ` by ${c.supersededBy}` : ""}</Badge>}
         <Badge tone="steel">{verdictLabels[c.verdict]}</Badge>
+        {c.concession ? <Badge tone="ochre">Concession</Badge> : null}
         {c.amends ? <span className="text-caption text-ink-soft">amends {c.amends}</span> : null}
       </div>
-      <p className="text-caption text-ink-soft">
-        Issued {formatDateTime(c.issuedAt)} to {c.recipientName ? `${c.recipientName} <${c.recipientEmail}>` : c.recipientEmail} · SHA-256 {c.pdfSha256.slice(0, 16)}…
-      </p>
-      <p className="text-caption">
-        {c.mail === null ? (
-          <span className="text-ink-soft">Not e-mailed.</span>
-        ) : c.mail.state === "sent" ? (
-          <span className="text-moss-600">E-mail sent{c.mail.attempts > 1 ? ` (after ${c.mail.attempts} attempts)` : ""}.</span>
-        ) : c.mail.state === "sending" ? (
-          <span className="text-ink-soft">Sending the e-mail…</span>
-        ) : (
-          <span role="alert" className="font-medium text-rust-700">
-            The e-mail failed: {c.mail.error ?? "no reason given"}. The certificate stays issued; send it again.
-          </span>
-        )}
-      </p>
-      {resend.isError ? <Alert tone="error">{resend.error.message}</Alert> : null}
-      <div className="flex flex-wrap gap-2">
-        <a href={certificatePdfHref(c.number)} target="_blank" rel="noreferrer" className="inline-flex min-h-9 items-center rounded-control border border-line-strong px-3 text-caption font-medium text-steel-700 hover:bg-steel-50">
-          PDF
-        </a>
-        <a href={c.verifyUrl} target="_blank" rel="noreferrer" className="inline-flex min-h-9 items-center rounded-control border border-line-strong px-3 text-caption font-medium text-steel-700 hover:bg-steel-50">
-          Verification page
-        </a>
-        {canIssue ? (
-          <Button size="sm" variant="secondary" pending={resend.isPending} onClick={() => resend.mutate(c.number)}>
-            Re-send
-          </Button>
-        ) : null}
+      <WithdrawnNote withdrawn={c.withdrawn} />
+      <IssuedTo c={c} />
+      <MailState mail={c.mail} />
+      <CertificateActions workshopId={workshopId} listKey={certificatesKey(workshopId, unitId)} c={c} current={c.state === "current"} canIssue={canIssue} canWithdraw={canWithdraw}>
         {canIssue && onAmend ? (
           <Button size="sm" variant="quiet" onClick={onAmend}>
             Amend…
           </Button>
         ) : null}
-      </div>
+      </CertificateActions>
     </li>
   );
 }

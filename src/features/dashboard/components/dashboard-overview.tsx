@@ -87,17 +87,18 @@ export function DashboardOverview({ workshopId, batchHref, unitHref, noBatchesAc
           ) : queue.items.length > 0 ? (
             <ul aria-label="Units awaiting review" className="mt-3 divide-y divide-line">
               {queue.items.map(({ batch, row }) => (
-                <li key={row.id} className="flex flex-wrap items-center justify-between gap-x-3 gap-y-1 py-2 text-caption">
-                  <span className="whitespace-nowrap">
-                    <Link to={unitHref(row.id)} className="font-semibold text-steel-700 underline underline-offset-2">
-                      {row.serial}
-                    </Link>{" "}
-                    <span className="text-ink-faint">in {batch.code}</span>
-                  </span>
-                  <span className="flex items-center gap-2 whitespace-nowrap">
-                    <span className="tabular-nums">{formatCents(row.deviationCents)}</span>
+                <li key={row.id} className="flex flex-col gap-0.5 py-2 text-caption">
+                  <span className="flex flex-wrap items-center justify-between gap-x-3 gap-y-1">
+                    <span className="whitespace-nowrap">
+                      <Link to={unitHref(row.id)} className="font-semibold text-steel-700 underline underline-offset-2">
+                        {row.serial}
+                      </Link>{" "}
+                      <span className="text-ink-faint">in {batch.code}</span>
+                    </span>
                     <VerdictBadge verdict={row.verdict} />
                   </span>
+                  {/* Why, in the spec's own terms: "Fundamental −9.4 ¢ outside ±5 ¢", "T60 17.3 s < 20 s minimum". */}
+                  <span className="text-ink-soft">{row.why.length ? row.why.join("; ") : formatCents(row.deviationCents)}</span>
                 </li>
               ))}
             </ul>

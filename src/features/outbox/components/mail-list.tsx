@@ -15,7 +15,7 @@ export function MailList({ workshopId, messageHref, emptyAction }: Props) {
   if (mail.data.length === 0) {
     return (
       <EmptyState title="The outbox is empty" action={emptyAction}>
-        Mail Tinelog sends — invitations now, test certificates later — is listed here. Invite a member to send the first one.
+        Mail Tinelog sends for this workshop — invitations, test certificates and notices of withdrawn certificates — is listed here.
       </EmptyState>
     );
   }

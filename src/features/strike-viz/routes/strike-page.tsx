@@ -89,8 +89,14 @@ function StrikeView({ workshopId, strike }: { workshopId: string; strike: Strike
             {strike.uploadedBy ? ` by ${strike.uploadedBy.name}` : ""}
           </>
         }
-        actions={<Badge tone={strike.state === "done" ? "moss" : strike.state === "failed" ? "rust" : "steel"}>{strikeStateLabels[strike.state]}</Badge>}
+        actions={strike.voided ? <Badge>Voided</Badge> : <Badge tone={strike.state === "done" ? "moss" : strike.state === "failed" ? "rust" : "steel"}>{strikeStateLabels[strike.state]}</Badge>}
       />
+
+      {strike.voided ? (
+        <Alert tone="caution" title={`Voided ${formatDateTime(strike.voided.at)}${strike.voided.by ? ` by ${strike.voided.by.name}` : ""}`}>
+          {strike.voided.reason} The strike stays in the record but is not part of the unit's evaluation.
+        </Alert>
+      ) : null}
 
       <dl className="grid grid-cols-2 gap-x-6 gap-y-2 text-body sm:grid-cols-4" aria-label="Recording">
         <Fact label="Sample rate" value={strike.sampleRate ? `${(strike.sampleRate / 1000).toLocaleString("en-GB")} kHz` : "–"} />

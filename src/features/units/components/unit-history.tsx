@@ -8,16 +8,22 @@ import { useUnitHistory, type AuditEvent } from "../api/get-unit-history";
 const actionWords: Record<string, string> = {
   "unit.evaluate": "Evaluated",
   "unit.disposition": "Disposition recorded",
+  "unit.disposition.supersede": "Disposition superseded",
+  "strike.void": "Strike voided",
   "unit.update": "Customer details changed",
   "strike.upload": "Strike uploaded",
   "certificate.issue": "Certificate issued",
   "certificate.amend": "Certificate amended",
+  "certificate.withdraw": "Certificate withdrawn",
+  "certificate.resend": "Certificate e-mail sent again",
 };
 
 function detail(event: AuditEvent): string | null {
   const after = (event.after ?? {}) as Record<string, unknown>;
   if (typeof after.verdict === "string" && after.verdict in verdictLabels) return verdictLabels[after.verdict as Verdict];
-  if (typeof after.decision === "string" && after.decision in dispositionLabels) return dispositionLabels[after.decision as DispositionDecision];
+  if (typeof after.decision === "string" && after.decision in dispositionLabels) return `${dispositionLabels[after.decision as DispositionDecision]}${typeof after.reason === "string" ? ` (${after.reason})` : ""}`;
+  if (event.action === "strike.void" && typeof after.originalName === "string") return `${after.originalName} (${String(after.reason ?? "")})`;
+  if (event.action === "certificate.withdraw" && typeof after.number === "string") return `${after.number} (${String(after.reason ?? "")})`;
   if (typeof after.originalName === "string") return after.originalName;
   if (typeof after.number === "string") return after.number;
   return null;

@@ -1,26 +1,46 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
-import type { DecisionRule, LineResult, Verdict } from "@shared/schemas/certificate";
+import type { Concession, DecisionRule, LineResult, Verdict } from "@shared/schemas/certificate";
 import { api } from "@/lib/api-client";
 
-/** What the public verification look-up answers: only what the certificate shows, no contact data. */
-export type Verification = {
+type ResultLine = { label: string; measuredHz: number; expandedUncertaintyHz: number; deviationCents: number; toleranceCents: number; result: LineResult };
+type Common = {
   number: string;
   workshop: string;
-  unit: string;
   product: string;
   family: string;
   measuredFrom: string;
   measuredTo: string;
   issuedAt: string;
-  verdict: Verdict;
   decisionRule: DecisionRule;
-  results: { label: string; measuredHz: number; expandedUncertaintyHz: number; deviationCents: number; toleranceCents: number; result: LineResult }[];
+  statementOfConformity: string;
   authorisedBy: { name: string; role: string };
   pdfSha256: string;
   signatureAlgorithm: string;
   signingKeyId: string;
   signatureValid: boolean;
   pdfIntact: boolean;
+  /** When and why the workshop withdrew the certificate (no names). */
+  withdrawn: { at: string; reason: string } | null;
+};
+
+/** A batch certificate: every unit it covers, with results, and the units it does not cover. */
+export type BatchVerification = Common & {
+  kind: "batch";
+  batch: string;
+  units: { serial: string; verdict: Verdict; concession: Concession | null; results: ResultLine[] }[];
+  excluded: { serial: string; reason: string }[];
+};
+
+/** What the public verification look-up answers: only what the certificate shows, no contact data. */
+export type Verification = UnitVerification | BatchVerification;
+
+export type UnitVerification = Common & {
+  kind: "unit";
+  /** Set when the unit was released under a concession: what it departs from and why it was accepted. */
+  concession: Concession | null;
+  unit: string;
+  verdict: Verdict;
+  results: ResultLine[];
   amends: { number: string; reason: string } | null;
   superseded: boolean;
   supersededBy: string | null;

@@ -13,6 +13,7 @@ import { Spinner } from "@/components/ui/spinner";
 import { BatchStateBadge } from "@/components/ui/status-badges";
 import { paths } from "@/config/paths";
 import { BatchCharts } from "@/features/batch-charts/components/batch-charts";
+import { BatchCertificatesPanel } from "@/features/certificates/components/batch-certificates-panel";
 import { getBatchQueryOptions, useBatch } from "@/features/batches/api/get-batch";
 import { AddUnitsForm } from "@/features/batches/components/add-units-form";
 import { BatchActions } from "@/features/batches/components/batch-actions";
@@ -101,8 +102,29 @@ export function BatchLedgerRoute() {
           <h2 id="ledger-heading" className="mb-3 text-title font-semibold">
             Ledger
           </h2>
-          <LedgerTable rows={b.rows} unitHref={paths.app.unit.getHref} toleranceCents={b.fundamentalToleranceCents} />
+          <LedgerTable
+            rows={b.rows}
+            unitHref={paths.app.unit.getHref}
+            toleranceCents={b.fundamentalToleranceCents}
+            bulk={!released && can(role, "disposition", "create") ? { workshopId, batchId: b.id } : undefined}
+          />
         </Panel>
+
+        {released && can(role, "certificate", "read") ? (
+          <Panel aria-labelledby="certificates-heading" className="no-print">
+            <h2 id="certificates-heading" className="mb-3 text-title font-semibold">
+              Certificates
+            </h2>
+            <BatchCertificatesPanel
+              workshopId={workshopId}
+              batchId={b.id}
+              batchCode={b.code}
+              canIssue={can(role, "certificate", "issue")}
+              canWithdraw={can(role, "certificate", "withdraw")}
+              unitHref={paths.app.unit.getHref}
+            />
+          </Panel>
+        ) : null}
 
         {/* ── Batch charts slot: control chart, histogram and capability (src/features/batch-charts) ── */}
         <section aria-label="Batch charts" className="print-break-before">

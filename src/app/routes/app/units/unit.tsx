@@ -6,6 +6,7 @@ import type { QueryClient } from "@tanstack/react-query";
 import { Link, useParams, type LoaderFunctionArgs } from "react-router";
 import { can } from "@shared/permissions";
 import { batchStateLabels } from "@shared/schemas/batch";
+import { verdictWhy } from "@shared/verdict-why";
 import { ButtonLink } from "@/components/ui/button";
 import { PageHeader, Panel } from "@/components/ui/panel";
 import { Spinner } from "@/components/ui/spinner";
@@ -45,11 +46,13 @@ export function UnitRoute() {
   const pending = u.strikes.some((s) => s.state === "queued" || s.state === "analysing");
   const canStrike = can(role, "strike", "create");
   const evaluation = u.evaluation;
+  const why = evaluation ? verdictWhy(evaluation) : [];
   const blockedReason = !released
     ? `Certificates are issued once batch ${u.batch.code} is released (it is ${batchStateLabels[u.batch.state].toLowerCase()}).`
-    : !evaluation
-      ? "This unit has no evaluation, so there is nothing to certify."
-      : null;
+    : u.certification.reason;
+  // The maker who uploaded a strike may void it; quality may void anyone's; never once released.
+  const canVoid = (s: { uploadedBy: { id: string } | null }) =>
+    !released && (can(role, "strike", "void-others") || (can(role, "strike", "void") && s.uploadedBy?.id === me.user.id));
 
   return (
     <>
@@ -75,6 +78,11 @@ export function UnitRoute() {
               </Link>
               , version {u.spec.version}
             </span>
+            {why.length ? (
+              <span className="mt-1 block text-body font-medium text-rust-700" aria-label="Why">
+                {why.join(" · ")}
+              </span>
+            ) : null}
           </>
         }
       />
@@ -104,7 +112,7 @@ export function UnitRoute() {
           <h2 id="strikes-heading" className="mb-3 text-title font-semibold">
             Strikes
           </h2>
-          <StrikesList unit={u} strikeHref={paths.strike.getHref} />
+          <StrikesList unit={u} strikeHref={paths.strike.getHref} workshopId={workshopId} canVoid={canVoid} />
           <div className="mt-6">
             <CompareStrikes unit={u} />
           </div>
@@ -130,7 +138,7 @@ export function UnitRoute() {
           <h2 id="disposition-heading" className="mb-3 text-title font-semibold">
             Disposition
           </h2>
-          <DispositionsPanel workshopId={workshopId} unit={u} canDecide={can(role, "disposition", "create")} />
+          <DispositionsPanel workshopId={workshopId} unit={u} canDecide={can(role, "disposition", "create")} canSupersede={can(role, "disposition", "supersede")} />
         </Panel>
 
         <Panel aria-labelledby="certificates-heading">
@@ -142,7 +150,10 @@ export function UnitRoute() {
             unitId={u.id}
             customer={{ name: u.customerName, email: u.customerEmail }}
             canIssue={can(role, "certificate", "issue")}
+            canWithdraw={can(role, "certificate", "withdraw")}
             blockedReason={blockedReason}
+            concession={u.certification.concession}
+            released={released}
             settingsHref={can(role, "workshop", "update") ? paths.app.settings.getHref() : undefined}
           />
         </Panel>
@@ -152,7 +163,7 @@ export function UnitRoute() {
             <h2 id="history-heading" className="mb-3 text-title font-semibold">
               History
             </h2>
-            <UnitHistory workshopId={workshopId} unitId={u.id} revision={`${evaluation?.id ?? "none"}:${u.dispositions.length}:${u.customerName ?? ""}:${u.customerEmail ?? ""}`} />
+            <UnitHistory workshopId={workshopId} unitId={u.id} revision={`${evaluation?.id ?? "none"}:${u.dispositions.length}:${u.strikes.filter((s) => s.voided).length}:${u.customerName ?? ""}:${u.customerEmail ?? ""}`} />
           </Panel>
         ) : null}
       </div>
