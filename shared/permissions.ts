@@ -17,6 +17,8 @@ export const statement = {
   disposition: ["create"],
   certificate: ["read", "issue"],
   audit: ["read"],
+  instrument: ["read", "write"],
+  evaluation: ["create"],
 } as const;
 
 export const ac = createAccessControl(statement);
@@ -30,6 +32,7 @@ const makerGrants = {
   unit: ["read", "create"],
   strike: ["read", "create"],
   certificate: ["read"],
+  instrument: ["read"],
 } satisfies Grants;
 
 const qaGrants = {
@@ -39,6 +42,8 @@ const qaGrants = {
   disposition: ["create"],
   certificate: ["read", "issue"],
   audit: ["read"],
+  instrument: ["read", "write"],
+  evaluation: ["create"],
 } satisfies Grants;
 
 const ownerGrants = {

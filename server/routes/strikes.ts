@@ -20,6 +20,7 @@ import { badRequest, conflict, HttpError } from "../http-error.ts";
 import { requirePermission, userOf, workshopOf } from "../middleware/guards.ts";
 import { audit } from "../services/audit.ts";
 import { findBatch } from "../services/batches.ts";
+import { checkStrikeInstruments } from "../services/instruments.ts";
 import { assertNotDuplicate, findUnit, getStrike, getUnit, insertStrike, nextUnmeasured, recordDisposition, strikeFile } from "../services/strikes.ts";
 import type { AppDeps } from "../app.ts";
 
@@ -92,6 +93,7 @@ export function strikeRoutes(deps: AppDeps) {
         throw new HttpError(422, "unprocessable", `The sample rate is ${header.sampleRate} Hz; Tinelog accepts ${LIMITS.minRate}–${LIMITS.maxRate} Hz. Record at 44.1 or 48 kHz.`, { audio: "Sample rate out of range" });
       }
       const fields = strikeUploadFieldsSchema.parse(req.body ?? {});
+      checkStrikeInstruments(db, workshopOf(req).id, fields, fields.temperatureC);
       // Again with the real size: a chunked upload declares none before it is read.
       storage.checkRoom(db, workshopOf(req).id, file.size);
       const sha256 = await storage.sha256Of(file.path);
@@ -109,6 +111,8 @@ export function strikeRoutes(deps: AppDeps) {
           format: { sampleRate: header.sampleRate, channels: header.channels, bitsPerSample: header.bitsPerSample, encoding: header.encoding, durationS: header.durationS },
           temperatureC: fields.temperatureC,
           support: fields.support,
+          recorderId: fields.recorderId,
+          thermometerId: fields.thermometerId,
         });
         queue.notify();
         return row;

@@ -24,6 +24,7 @@ import { conflict, HttpError, notFound } from "../http-error.ts";
 import type { Mailer } from "../mail/mailer.ts";
 import { audit, type Actor } from "./audit.ts";
 import { latestEvaluations } from "./batches.ts";
+import { certificateTraceability } from "./certificate-traceability.ts";
 import { getSpecVersion } from "./specs.ts";
 import { findUnit } from "./strikes.ts";
 
@@ -119,6 +120,7 @@ function buildData(deps: CertificateDeps, actor: Actor & { name: string; role: R
     // Any fork may end up in a clinic or a laboratory, so every fork certificate states that it records a
     // measurement only; other families get it when their spec's name says clinical or laboratory use.
     flags: { measurementOnlyCaution: spec.family === "tuning_fork" || needsMeasurementOnlyCaution(spec.name) },
+    traceability: certificateTraceability(db, actor.workshopId, ev),
   };
   return { data, evaluation: ev };
 }

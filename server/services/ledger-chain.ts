@@ -1,18 +1,19 @@
 /**
- * The hash chain over the quality record (measurement, evaluation, disposition, release). Each entry
+ * The hash chain over the quality record (measurement, evaluation, disposition, release, calibration). Each entry
  * holds sha256(canonical row) and the previous entry's hash within the workshop, so changing any
  * byte of a chained row, or removing an entry, breaks every hash after it.
  */
 import { createHash } from "node:crypto";
 import type { Sqlite } from "../db/client.ts";
 
-export type ChainKind = "measurement" | "evaluation" | "disposition" | "release";
+export type ChainKind = "measurement" | "evaluation" | "disposition" | "release" | "calibration";
 
 const tableOf: Record<ChainKind, string> = {
   measurement: "measurement",
   evaluation: "evaluation",
   disposition: "disposition",
   release: "batch",
+  calibration: "instrument_calibration",
 };
 
 export const GENESIS = "0".repeat(64);

@@ -3,6 +3,7 @@ import { z } from "zod";
 import type { AnalysisResult } from "./analysis.ts";
 import type { DispositionDecision, BatchState } from "./batch.ts";
 import type { EvaluationView } from "./evaluation.ts";
+import type { StrikeCorrection } from "./instrument.ts";
 import { supports, type Family, type Support } from "./spec.ts";
 
 export const strikeStates = ["queued", "analysing", "done", "failed"] as const;
@@ -14,6 +15,15 @@ export const strikeStateLabels: Record<StrikeState, string> = {
   failed: "Failed",
 };
 
+const instrumentId = (what: string) =>
+  z
+    .union([z.literal(""), z.string().trim().max(64, `That is not a ${what} id.`)])
+    .optional()
+    .transform((v) => (v === "" || v === undefined ? null : v));
+
+/** The instruments a strike was measured with: the recorder, and the thermometer its temperature was read on. */
+export const strikeInstrumentFields = { recorderId: instrumentId("recorder"), thermometerId: instrumentId("thermometer") };
+
 /** The multipart fields beside the `audio` file (strings on the wire). */
 export const strikeUploadFieldsSchema = z.object({
   temperatureC: z
@@ -24,6 +34,7 @@ export const strikeUploadFieldsSchema = z.object({
     .union([z.literal(""), z.enum(supports, { error: "Support must be one of: hand, suspended, stand, other" })])
     .optional()
     .transform((v) => (v === "" || v === undefined ? null : v)),
+  ...strikeInstrumentFields,
 });
 export type StrikeUploadFields = z.infer<typeof strikeUploadFieldsSchema>;
 
@@ -44,6 +55,9 @@ export type StrikeSummary = {
   durationS: number | null;
   /** The fundamental found (lowest required partial matched), for lists. */
   fundamentalHz: number | null;
+  /** The instruments named at upload. */
+  recorder: { id: string; name: string } | null;
+  thermometer: { id: string; name: string } | null;
 };
 
 export type StrikeDetail = StrikeSummary & {
@@ -59,6 +73,13 @@ export type StrikeDetail = StrikeSummary & {
   unit: { id: string; serial: string; batchId: string; batchCode: string };
   /** Labels of the spec's partials matched to this strike's partials: index in result.strikes[0].partials → label. */
   labels: Record<number, string>;
+  /**
+   * The correction of this strike's frequencies and temperature: as applied in the unit's latest
+   * evaluation (`appliedIn`), or, before any evaluation used it, as it will be applied (`appliedIn` null).
+   * The partials above stay as recorded.
+   */
+  correction: StrikeCorrection;
+  appliedIn: { evaluationId: string; at: string } | null;
 };
 
 export type UnitDetail = {
