@@ -43,7 +43,7 @@ export function synthReferenceToneWav(opts: { frequencyHz: number; offsetPpm: nu
   return synthWav(
     {
       sampleRate: opts.sampleRate ?? 48000,
-      durationS: opts.durationS ?? 8,
+      durationS: opts.durationS ?? 4,
       strikes: [{ onsetS: 0, modes: [{ frequencyHz: opts.frequencyHz * (1 + opts.offsetPpm * 1e-6), amplitude: 0.4, tauS: Infinity }] }],
       noiseRms: 2e-4,
       seed: opts.seed,

@@ -19,7 +19,7 @@ import type { CheckResult, EvaluationView, RequirementResult, TuningGuidance, Ve
 import type { BudgetComponent, UncertaintyBudget } from "./schemas/instrument.ts";
 import type { DecisionRule, SpecInput, SpecPartial } from "./schemas/spec.ts";
 import { LN_1000, cents, correctToReferenceTemperature } from "./physics.ts";
-import { correctForClock, type InstrumentCorrection } from "./traceability.ts";
+import { correctForClock, twoSignificant, type InstrumentCorrection } from "./traceability.ts";
 
 /** One analysed strike segment of a recording (a file may hold several strikes). */
 export type EvaluationStrikeInput = {
@@ -441,7 +441,7 @@ function frequencyBudget(spec: SpecInput, label: string, obs: Observation[], opt
     const dT = Math.abs(median(withT.map((o) => o.deltaTC!)));
     components.push({
       source: "temperature_coefficient",
-      basis: `${spec.tempCoefficientPerC.toExponential(1)} per °C from the specification, ${rel > 0 ? `assumed known to ±${Math.round(rel * 100)} %, half-width/√3` : "taken as exact"}; correction over ${dT.toFixed(2)} °C`,
+      basis: `${spec.tempCoefficientPerC < 0 ? "−" : ""}${twoSignificant(alpha)} per °C from the specification, ${rel > 0 ? `assumed known to ±${Math.round(rel * 100)} %, half-width/√3` : "taken as exact"}; correction over ${dT.toFixed(2)} °C`,
       distribution: "rectangular",
       standardUncertainty: uAlpha,
       unit: "1/°C",

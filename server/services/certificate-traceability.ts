@@ -146,3 +146,12 @@ export function certificateTraceability(db: Db, workshopId: string, ev: Evaluati
       : null,
   };
 }
+
+/**
+ * The temperatures the results were corrected from, °C: the readings corrected for their
+ * thermometer's calibration where the evaluation applied one, else the readings as entered.
+ */
+export function measuredTemperatures(ev: EvaluationView, readings: (number | null)[]): number[] {
+  const corrected = ev.traceability?.strikes.map((s) => s.thermometer?.correctedC ?? null).filter((t): t is number => t !== null);
+  return corrected && corrected.length ? corrected : readings.filter((t): t is number => t !== null);
+}

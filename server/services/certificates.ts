@@ -24,7 +24,7 @@ import { conflict, HttpError, notFound } from "../http-error.ts";
 import type { Mailer } from "../mail/mailer.ts";
 import { audit, type Actor } from "./audit.ts";
 import { latestEvaluations } from "./batches.ts";
-import { certificateTraceability } from "./certificate-traceability.ts";
+import { certificateTraceability, measuredTemperatures } from "./certificate-traceability.ts";
 import { getSpecVersion } from "./specs.ts";
 import { findUnit } from "./strikes.ts";
 
@@ -70,7 +70,7 @@ function buildData(deps: CertificateDeps, actor: Actor & { name: string; role: R
   if (!ev) throw conflict(`Unit ${u.serial} has no evaluation; it must be measured before a certificate can be issued.`);
   const spec = getSpecVersion(db, actor.workshopId, ev.specVersionId)!;
   const strikes = db.select().from(strike).where(and(eq(strike.unitId, unitId), eq(strike.state, "done"))).orderBy(asc(strike.uploadedAt)).all();
-  const temps = strikes.map((s) => s.temperatureC).filter((t): t is number => t !== null);
+  const temps = measuredTemperatures(ev, strikes.map((s) => s.temperatureC));
   const supports = [...new Set(strikes.map((s) => s.support).filter((s): s is string => !!s))];
   const results = ev.requirements
     .filter((r) => r.measuredHz !== null && r.targetHz !== null && r.deviationCents !== null && r.t60S !== null && r.q !== null)

@@ -23,6 +23,7 @@ export function StrikesList({ unit, strikeHref }: { unit: UnitDetail; strikeHref
               {strike.uploadedBy ? ` · ${strike.uploadedBy.name}` : ""}
               {strike.temperatureC != null ? ` · ${strike.temperatureC} °C` : ""}
               {strike.support ? ` · ${supportLabels[strike.support]}` : ""}
+              {strike.recorder ? ` · ${strike.recorder.name}` : ""}
               {strike.durationS != null ? ` · ${strike.durationS.toFixed(1)} s` : ""}
             </p>
             {strike.state === "failed" ? (

@@ -13,6 +13,7 @@ import { Spinner } from "@/components/ui/spinner";
 import { BatchStateBadge } from "@/components/ui/status-badges";
 import { paths } from "@/config/paths";
 import { BatchCharts } from "@/features/batch-charts/components/batch-charts";
+import { useInstruments } from "@/features/instruments/api/get-instruments";
 import { getBatchQueryOptions, useBatch } from "@/features/batches/api/get-batch";
 import { AddUnitsForm } from "@/features/batches/components/add-units-form";
 import { BatchActions } from "@/features/batches/components/batch-actions";
@@ -36,6 +37,7 @@ export function BatchLedgerRoute() {
   const { batchId = "" } = useParams();
   const { id: workshopId, role } = me.activeWorkshop;
   const batch = useBatch(workshopId, batchId);
+  const instruments = useInstruments(workshopId, can(role, "instrument", "read"));
   if (batch.isPending) return <Spinner label="Loading the ledger…" />;
   if (batch.isError) throw batch.error;
   const b = batch.data;
@@ -93,7 +95,7 @@ export function BatchLedgerRoute() {
               </div>
               <MeasureNextUnitButton batchId={b.id} unitHref={paths.app.unit.getHref} />
             </div>
-            <BatchDropZone workshopId={workshopId} batchId={b.id} unitHref={paths.app.unit.getHref} />
+            <BatchDropZone workshopId={workshopId} batchId={b.id} unitHref={paths.app.unit.getHref} userId={me.user.id} instruments={instruments.data ?? []} />
           </Panel>
         ) : null}
 
