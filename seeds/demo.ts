@@ -10,7 +10,7 @@ import type { AppDeps } from "../server/app.ts";
 import { member, organization, unit, user, workshopProfile } from "../server/db/schema.ts";
 import { createBatch } from "../server/services/batches.ts";
 import { createSpec } from "../server/services/specs.ts";
-import { createInstrument, findInstrument, recordRecorderCalibration, recordThermometerCalibration } from "../server/services/instruments.ts";
+import { createInstrument, findInstrument, measuredTone, recordRecorderCalibration, recordThermometerCalibration } from "../server/services/instruments.ts";
 import { insertStrike } from "../server/services/strikes.ts";
 import { measureReferenceTone } from "../server/analysis/reference-tone.ts";
 import type { RoleName } from "../shared/permissions.ts";
@@ -162,22 +162,8 @@ function seedDemoInstruments(deps: AppDeps, ids: DemoIds): DemoInstruments {
       const m = measureReferenceTone(wav, { expectedHz: hz });
       const storedPath = path.join(storage.incoming, `${randomUUID()}.part`);
       writeFileSync(storedPath, wav);
-      return {
-        referenceHz: hz,
-        // The generator's certificate: ±0.5 ppm (k = 2) of the set frequency (invented).
-        referenceUncertaintyHz: (hz * 0.5e-6) / 2,
-        referenceCertificate: "GEN-2291 (invented)",
-        measuredHz: m.frequencyHz,
-        measuredUncertaintyHz: m.frequencyUncertaintyHz,
-        snrDb: m.snrDb,
-        clearanceDb: m.clearanceDb,
-        decays: m.decays,
-        durationS: m.durationS,
-        sampleRate: m.sampleRate,
-        originalName: `reference-${hz}Hz-${daysAgo(days)}.wav`,
-        sha256: createHash("sha256").update(wav).digest("hex"),
-        storedPath,
-      };
+      // The generator's certificate: ±0.5 ppm (k = 2) of the set frequency (invented).
+      return measuredTone(m, { referenceHz: hz, expandedUncertaintyHz: hz * 0.5e-6, coverageFactor: 2, certificate: "GEN-2291 (invented)" }, { originalName: `reference-${hz}Hz-${daysAgo(days)}.wav`, sha256: createHash("sha256").update(wav).digest("hex"), storedPath });
     });
     recordRecorderCalibration({ db, sqlite, dataDir: deps.env.DATA_DIR }, qa, findInstrument(db, ids.workshopId, instrumentId), tones, { ...reference, calibratedOn: days === 0 ? null : daysAgo(days) });
   };

@@ -15,7 +15,7 @@ import { ReferenceToneRefused } from "../analysis/reference-tone.ts";
 import { readWavHeader } from "../analysis/wav.ts";
 import { badRequest, HttpError } from "../http-error.ts";
 import { requirePermission, userOf, workshopOf } from "../middleware/guards.ts";
-import { createInstrument, findInstrument, getInstrument, listInstruments, recordRecorderCalibration, recordThermometerCalibration, type MeasuredTone } from "../services/instruments.ts";
+import { createInstrument, findInstrument, getInstrument, listInstruments, measuredTone, recordRecorderCalibration, recordThermometerCalibration, type MeasuredTone } from "../services/instruments.ts";
 import { PoolBusyError } from "../workers/analysis-pool.ts";
 import type { AppDeps } from "../app.ts";
 
@@ -121,22 +121,13 @@ export function instrumentRoutes(deps: AppDeps) {
           if (error instanceof PoolBusyError) throw new HttpError(503, "busy", "The analysis is busy with uploads; nothing was stored. Send the calibration again in a minute.");
           throw error;
         }
-        tones.push({
-          referenceHz: fields.referenceHz[i],
-          // The certificate states an expanded uncertainty U with its k: the standard uncertainty is U/k (GUM §4.3.3).
-          referenceUncertaintyHz: uncertainties[i] / fields.referenceCoverageFactor,
-          referenceCertificate: certificates[i],
-          measuredHz: m.frequencyHz,
-          measuredUncertaintyHz: m.frequencyUncertaintyHz,
-          snrDb: m.snrDb,
-          clearanceDb: m.clearanceDb,
-          decays: m.decays,
-          durationS: m.durationS,
-          sampleRate: m.sampleRate,
-          originalName: name,
-          sha256: await storage.sha256Of(file.path),
-          storedPath: file.path,
-        });
+        tones.push(
+          measuredTone(
+            m,
+            { referenceHz: fields.referenceHz[i], expandedUncertaintyHz: uncertainties[i], coverageFactor: fields.referenceCoverageFactor, certificate: certificates[i] },
+            { originalName: name, sha256: await storage.sha256Of(file.path), storedPath: file.path },
+          ),
+        );
       }
       const calibration = recordRecorderCalibration({ db, sqlite, dataDir: env.DATA_DIR }, actor(req), inst, tones, fields);
       res.status(201).json({ id: calibration.id, offsetPpm: calibration.offsetPpm, offsetUncertaintyPpm: calibration.offsetUncertaintyPpm, validUntil: calibration.validUntil, calibration });

@@ -8,18 +8,10 @@
 import { and, eq, inArray } from "drizzle-orm";
 import type { CertificateInstrument, CertificateTraceability } from "../../shared/schemas/certificate.ts";
 import type { EvaluationView } from "../../shared/schemas/evaluation.ts";
-import type { BudgetComponent, StrikeCorrection, ThermometerPoint, ToneResult } from "../../shared/schemas/instrument.ts";
+import { budgetComponentLabels, type BudgetComponent, type StrikeCorrection, type ThermometerPoint, type ToneResult } from "../../shared/schemas/instrument.ts";
 import { signedPpm, twoSignificant } from "../../shared/traceability.ts";
 import type { Db } from "../db/client.ts";
 import { instrumentCalibration } from "../db/schema.ts";
-
-const COMPONENT_WORDS: Record<BudgetComponent["source"], string> = {
-  fit: "Frequency fit",
-  scatter: "Scatter of strikes",
-  clock: "Recording clock",
-  thermometer: "Thermometer reading",
-  temperature_coefficient: "Temperature coefficient",
-};
 
 const UNIT_WORDS: Record<BudgetComponent["unit"], string> = { Hz: "Hz", ppm: "ppm", "°C": "°C", "1/°C": "/°C" };
 const SENSITIVITY_UNIT: Record<BudgetComponent["unit"], string> = { Hz: "", ppm: " Hz/ppm", "°C": " Hz/°C", "1/°C": " Hz·°C" };
@@ -132,7 +124,7 @@ export function certificateTraceability(db: Db, workshopId: string, ev: Evaluati
           label: b.label,
           measuredHz: b.measuredHz,
           lines: b.components.map((c) => ({
-            component: COMPONENT_WORDS[c.source],
+            component: budgetComponentLabels[c.source],
             basis: c.basis,
             distribution: c.distribution,
             standardUncertainty: `${twoSignificant(c.standardUncertainty)} ${UNIT_WORDS[c.unit]}`,

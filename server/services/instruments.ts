@@ -5,7 +5,7 @@
  * the calibration in force when it was measured (shared/traceability.ts).
  */
 import { randomUUID } from "node:crypto";
-import { mkdirSync, renameSync } from "node:fs";
+import { mkdirSync, renameSync, rmSync } from "node:fs";
 import path from "node:path";
 import { and, asc, desc, eq, inArray, like, max } from "drizzle-orm";
 import type {
@@ -34,6 +34,7 @@ import {
   type InstrumentRef,
   type ToneInput,
 } from "../../shared/traceability.ts";
+import type { ReferenceToneMeasurement } from "../analysis/reference-tone.ts";
 import type { Db, Sqlite } from "../db/client.ts";
 import { instrument, instrumentCalibration, strike, user, workshopProfile } from "../db/schema.ts";
 import { badRequest, conflict, HttpError, notFound } from "../http-error.ts";
@@ -217,6 +218,30 @@ function insertCalibration(db: Db, sqlite: Sqlite, actor: Actor, inst: Instrumen
 export type MeasuredTone = ToneInput & { storedPath: string };
 
 /**
+ * A measured reference recording with its reference: the certificate states an expanded uncertainty U
+ * with its coverage factor k, so the standard uncertainty is U/k (GUM §4.3.3).
+ */
+export function measuredTone(
+  m: ReferenceToneMeasurement,
+  reference: { referenceHz: number; expandedUncertaintyHz: number; coverageFactor: number; certificate: string },
+  file: { originalName: string; sha256: string; storedPath: string },
+): MeasuredTone {
+  return {
+    referenceHz: reference.referenceHz,
+    referenceUncertaintyHz: reference.expandedUncertaintyHz / reference.coverageFactor,
+    referenceCertificate: reference.certificate,
+    measuredHz: m.frequencyHz,
+    measuredUncertaintyHz: m.frequencyUncertaintyHz,
+    snrDb: m.snrDb,
+    clearanceDb: m.clearanceDb,
+    decays: m.decays,
+    durationS: m.durationS,
+    sampleRate: m.sampleRate,
+    ...file,
+  };
+}
+
+/**
  * A recorder calibration from its measured reference tones: one offset (GUM-combined with the
  * references' uncertainties) and the frequency-dependence check. The recordings are kept beside the
  * database as the calibration's evidence.
@@ -240,22 +265,28 @@ export function recordRecorderCalibration(
     return key;
   });
   const certificates = [...new Set(combined.tones.map((t) => t.referenceCertificate))];
-  return insertCalibration(deps.db, deps.sqlite, actor, inst, {
-    calibratedAt,
-    validUntil: addMonthsUtc(calibratedAt, inst.validityMonths),
-    offsetPpm: combined.offsetPpm,
-    offsetUncertaintyPpm: combined.offsetUncertaintyPpm,
-    certificateNumber: certificates.join(", "),
-    detail: {
-      tones: combined.tones,
-      frequencyDependence: combined.frequencyDependence,
-      referenceDescription: fields.referenceDescription,
-      note: fields.note,
-      warnings: combined.warnings,
-      files,
-      coverageFactor: fields.referenceCoverageFactor,
-    },
-  });
+  try {
+    return insertCalibration(deps.db, deps.sqlite, actor, inst, {
+      calibratedAt,
+      validUntil: addMonthsUtc(calibratedAt, inst.validityMonths),
+      offsetPpm: combined.offsetPpm,
+      offsetUncertaintyPpm: combined.offsetUncertaintyPpm,
+      certificateNumber: certificates.join(", "),
+      detail: {
+        tones: combined.tones,
+        frequencyDependence: combined.frequencyDependence,
+        referenceDescription: fields.referenceDescription,
+        note: fields.note,
+        warnings: combined.warnings,
+        files,
+        coverageFactor: fields.referenceCoverageFactor,
+      },
+    });
+  } catch (error) {
+    // No row, no evidence files: they must not stay behind without it.
+    for (const key of files) rmSync(path.join(deps.dataDir, "calibrations", key), { force: true });
+    throw error;
+  }
 }
 
 /** A thermometer calibration from its certificate: offsets at the points, U/k as its standard uncertainty (GUM §4.3.3). */

@@ -237,6 +237,15 @@ export type BudgetComponent = {
   contributionHz: number;
 };
 
+/** The components' names, as the screens and the certificate show them. */
+export const budgetComponentLabels: Record<BudgetComponent["source"], string> = {
+  fit: "Frequency fit",
+  scatter: "Scatter of strikes",
+  clock: "Recording clock",
+  thermometer: "Thermometer reading",
+  temperature_coefficient: "Temperature coefficient",
+};
+
 export type UncertaintyBudget = {
   label: string;
   measuredHz: number;

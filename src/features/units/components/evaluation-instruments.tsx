@@ -7,7 +7,7 @@
 import clsx from "clsx";
 import { useState } from "react";
 import type { EvaluationView } from "@shared/schemas/evaluation";
-import type { BudgetComponent, StrikeCorrection } from "@shared/schemas/instrument";
+import { budgetComponentLabels, type StrikeCorrection } from "@shared/schemas/instrument";
 import type { StrikeSummary } from "@shared/schemas/strike";
 import { twoSignificant } from "@shared/traceability";
 import { Alert } from "@/components/ui/alert";
@@ -16,14 +16,6 @@ import { Button } from "@/components/ui/button";
 import { isApiError } from "@/lib/api-client";
 import { formatDate } from "@/lib/format";
 import { useReevaluateUnit } from "../api/reevaluate-unit";
-
-const SOURCE_WORDS: Record<BudgetComponent["source"], string> = {
-  fit: "Frequency fit",
-  scatter: "Scatter of strikes",
-  clock: "Recording clock",
-  thermometer: "Thermometer reading",
-  temperature_coefficient: "Temperature coefficient",
-};
 
 const signed = (v: number, d: number, unit: string) => `${v < 0 ? "\u2212" : "+"}${Math.abs(v).toFixed(d)} ${unit}`;
 
@@ -132,7 +124,7 @@ function BudgetTable({ budget }: { budget: NonNullable<NonNullable<EvaluationVie
             {budget.components.map((c) => (
               <tr key={c.source}>
                 <th scope="row" className="py-2 pr-3 font-medium">
-                  {SOURCE_WORDS[c.source]}
+                  {budgetComponentLabels[c.source]}
                 </th>
                 <td className="py-2 pr-3">{c.basis}</td>
                 <td className="py-2 pr-3">{c.distribution}</td>
