@@ -64,8 +64,10 @@ describe("instruments", () => {
     // The choice is remembered for this person in this browser.
     await page.reload();
     await page.getByRole("heading", { name: `Unit ${unit.serial}` }).waitFor();
-    const chosen = await page.getByLabel("Recorded with").evaluate((el) => (el as HTMLSelectElement).selectedOptions[0]?.textContent);
-    expect(chosen).toBe("Test bench recorder");
+    // The list of instruments arrives after the page: wait for it, then read the choice.
+    const recordedWith = page.getByLabel("Recorded with");
+    await recordedWith.locator("option", { hasText: "Test bench recorder" }).waitFor({ state: "attached" });
+    await expect.poll(() => recordedWith.evaluate((el) => (el as HTMLSelectElement).selectedOptions[0]?.textContent), { timeout: 10_000 }).toBe("Test bench recorder");
 
     await page.getByRole("link", { name: `${unit.serial}-a.wav` }).click();
     const correction = page.getByTestId("strike-correction");

@@ -62,7 +62,7 @@ describe("joining a workshop by invitation", () => {
     await page.getByRole("heading", { name: "Dashboard", level: 1 }).waitFor();
     await page.getByText(`${demo.workshopName} · you work here as Quality.`).waitFor();
     const links = (await page.getByRole("navigation", { name: "Main" }).getByRole("link").allTextContents()).map((t) => t.replace(/soon$/, "").trim());
-    expect(links).toEqual(["Dashboard", "Batches", "Specifications"]);
+    expect(links).toEqual(["Dashboard", "Batches", "Specifications", "Instruments"]);
     await screenshot(page, "e2e-portrait-qa-dashboard");
   });
 

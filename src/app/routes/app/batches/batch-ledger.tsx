@@ -13,7 +13,7 @@ import { Spinner } from "@/components/ui/spinner";
 import { BatchStateBadge } from "@/components/ui/status-badges";
 import { paths } from "@/config/paths";
 import { BatchCharts } from "@/features/batch-charts/components/batch-charts";
-import { useInstruments } from "@/features/instruments/api/get-instruments";
+import { getInstrumentsQueryOptions, useInstruments } from "@/features/instruments/api/get-instruments";
 import { getBatchQueryOptions, useBatch } from "@/features/batches/api/get-batch";
 import { AddUnitsForm } from "@/features/batches/components/add-units-form";
 import { BatchActions } from "@/features/batches/components/batch-actions";
@@ -29,6 +29,8 @@ export const batchLedgerLoader = (queryClient: QueryClient) => async ({ request,
   const me = await requireWorkshop(queryClient, request);
   assertCan(me, "batch", "read", "reading batches");
   await queryClient.ensureQueryData(getBatchQueryOptions(me.activeWorkshop.id, params.batchId ?? ""));
+  // The upload's instrument choice needs the list at once (a remembered recorder is shown as chosen).
+  if (can(me.activeWorkshop.role, "instrument", "read")) await queryClient.ensureQueryData(getInstrumentsQueryOptions(me.activeWorkshop.id));
   return null;
 };
 

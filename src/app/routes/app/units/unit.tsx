@@ -13,7 +13,7 @@ import { VerdictBadge } from "@/components/ui/status-badges";
 import { paths } from "@/config/paths";
 import { CertificatesPanel } from "@/features/certificates/components/certificates-panel";
 import { CompareStrikes } from "@/features/compare-strikes/components/compare-strikes";
-import { useInstruments } from "@/features/instruments/api/get-instruments";
+import { getInstrumentsQueryOptions, useInstruments } from "@/features/instruments/api/get-instruments";
 import { StrikeRecorder } from "@/features/recorder/components/strike-recorder";
 import { getUnitQueryOptions, useUnit } from "@/features/units/api/get-unit";
 import { DispositionsPanel } from "@/features/units/components/dispositions-panel";
@@ -32,6 +32,8 @@ export const unitLoader = (queryClient: QueryClient) => async ({ request, params
   const me = await requireWorkshop(queryClient, request);
   assertCan(me, "unit", "read", "reading units");
   await queryClient.ensureQueryData(getUnitQueryOptions(me.activeWorkshop.id, params.unitId ?? ""));
+  // The upload's instrument choice needs the list at once (a remembered recorder is shown as chosen).
+  if (can(me.activeWorkshop.role, "instrument", "read")) await queryClient.ensureQueryData(getInstrumentsQueryOptions(me.activeWorkshop.id));
   return null;
 };
 
