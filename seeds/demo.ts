@@ -10,11 +10,13 @@ import type { AppDeps } from "../server/app.ts";
 import { member, organization, unit, user, workshopProfile } from "../server/db/schema.ts";
 import { createBatch } from "../server/services/batches.ts";
 import { createSpec } from "../server/services/specs.ts";
+import { createInstrument, findInstrument, measuredTone, recordRecorderCalibration, recordThermometerCalibration } from "../server/services/instruments.ts";
 import { insertStrike } from "../server/services/strikes.ts";
+import { measureReferenceTone } from "../server/analysis/reference-tone.ts";
 import type { RoleName } from "../shared/permissions.ts";
 import { specInputSchema } from "../shared/schemas/spec.ts";
 import { specTemplate } from "../shared/spec-templates.ts";
-import { prng, synthStrikeWav } from "./synth.ts";
+import { prng, synthReferenceToneWav, synthStrikeWav } from "./synth.ts";
 
 export const DEMO_PASSWORD = "tinelog-demo";
 
@@ -68,7 +70,8 @@ export async function seedDemo(deps: AppDeps): Promise<DemoIds | null> {
     ])
     .run();
   const ids = { workshopId, otherWorkshopId, users };
-  seedDemoLedger(deps, ids, { strikes: deps.env.DEMO_STRIKES });
+  const instruments = seedDemoInstruments(deps, ids);
+  seedDemoLedger(deps, ids, { strikes: deps.env.DEMO_STRIKES, instruments });
   return ids;
 }
 
@@ -76,7 +79,7 @@ export async function seedDemo(deps: AppDeps): Promise<DemoIds | null> {
  * A living ledger for a first look: a fork specification, one batch fully struck (two units out of
  * tolerance, waiting for QA's disposition), and one batch still to be measured.
  */
-function seedDemoLedger(deps: AppDeps, ids: DemoIds, opts: { strikes: boolean }) {
+function seedDemoLedger(deps: AppDeps, ids: DemoIds, opts: { strikes: boolean; instruments: DemoInstruments }) {
   const { db, storage } = deps;
   const qa = { workshopId: ids.workshopId, userId: ids.users["qa@example.com"] };
   const maker = { workshopId: ids.workshopId, userId: ids.users["maker@example.com"] };
@@ -105,7 +108,10 @@ function seedDemoLedger(deps: AppDeps, ids: DemoIds, opts: { strikes: boolean })
   const rand = prng(2611);
   const units = db.select().from(unit).where(eq(unit.batchId, measured.id)).all().sort((a, b) => a.position - b.position);
   units.forEach((u, i) => {
-    const f0 = 440 * 2 ** (deviations[i] / 1200);
+    // Most forks on the calibrated bench recorder; two on the tablet (due soon), one on the spare (never calibrated).
+    const recorder = i === 4 || i === 8 ? opts.instruments.tablet : i === 6 ? opts.instruments.spare : opts.instruments.bench;
+    // The recorder reads every frequency (1 + offset·10⁻⁶) times too high; its calibration corrects that.
+    const f0 = 440 * 2 ** (deviations[i] / 1200) * (1 + recorder.offsetPpm * 1e-6);
     const wav = synthStrikeWav({
       durationS: 4,
       seed: 1000 + i,
@@ -128,7 +134,58 @@ function seedDemoLedger(deps: AppDeps, ids: DemoIds, opts: { strikes: boolean })
       format: { sampleRate: 48000, channels: 1, bitsPerSample: 16, encoding: "pcm", durationS: 4 },
       temperatureC: 21 + Math.round(rand() * 20) / 10,
       support: "hand",
+      recorderId: recorder.id,
+      thermometerId: opts.instruments.thermometerId,
     });
   });
   deps.queue.notify();
+}
+
+type DemoRecorder = { id: string; offsetPpm: number };
+type DemoInstruments = { bench: DemoRecorder; tablet: DemoRecorder; spare: DemoRecorder; thermometerId: string };
+
+const daysAgo = (days: number) => new Date(Date.now() - days * 86_400_000).toISOString().slice(0, 10);
+
+/**
+ * The demo's instruments (invented): a bench recorder calibrated three times a year apart against a
+ * generator (the offset drifts a little), a tablet whose calibration falls due in about two weeks, a
+ * spare microphone never calibrated, and a bench thermometer with a laboratory certificate. The
+ * reference tones are synthesised at each recorder's offset and measured by the analysis engine.
+ */
+function seedDemoInstruments(deps: AppDeps, ids: DemoIds): DemoInstruments {
+  const { db, sqlite, storage } = deps;
+  const qa = { workshopId: ids.workshopId, userId: ids.users["qa@example.com"] };
+  const reference = { referenceDescription: "signal generator SG-2 of the workshop (invented), its timebase calibrated by a laboratory", note: "", referenceCoverageFactor: 2 };
+  const calibrate = (instrumentId: string, offsetPpm: number, days: number, tonesHz: number[], seed: number) => {
+    const tones = tonesHz.map((hz, k) => {
+      const wav = synthReferenceToneWav({ frequencyHz: hz, offsetPpm, seed: seed + k });
+      const m = measureReferenceTone(wav, { expectedHz: hz });
+      const storedPath = path.join(storage.incoming, `${randomUUID()}.part`);
+      writeFileSync(storedPath, wav);
+      // The generator's certificate: ±0.5 ppm (k = 2) of the set frequency (invented).
+      return measuredTone(m, { referenceHz: hz, expandedUncertaintyHz: hz * 0.5e-6, coverageFactor: 2, certificate: "GEN-2291 (invented)" }, { originalName: `reference-${hz}Hz-${daysAgo(days)}.wav`, sha256: createHash("sha256").update(wav).digest("hex"), storedPath });
+    });
+    recordRecorderCalibration({ db, sqlite, dataDir: deps.env.DATA_DIR }, qa, findInstrument(db, ids.workshopId, instrumentId), tones, { ...reference, calibratedOn: days === 0 ? null : daysAgo(days) });
+  };
+  const bench = createInstrument(db, qa, { kind: "recorder", name: "Bench recorder A", model: "USB audio interface, 48 kHz (demo)", serial: "BR-A-0193", validityMonths: 12 }).id;
+  calibrate(bench, 15.2, 750, [1000], 71);
+  calibrate(bench, 16.9, 385, [1000], 72);
+  calibrate(bench, 18.4, 20, [440, 1000], 73);
+  const tablet = createInstrument(db, qa, { kind: "recorder", name: "Packing bench tablet", model: "Tablet with clip-on microphone (demo)", serial: "TB-7720", validityMonths: 12 }).id;
+  calibrate(tablet, -42.7, 350, [1000], 74);
+  const spare = createInstrument(db, qa, { kind: "recorder", name: "Spare USB microphone", model: "USB microphone (demo)", serial: "", validityMonths: 12 }).id;
+  const thermometerId = createInstrument(db, qa, { kind: "thermometer", name: "Bench thermometer T1", model: "Digital probe thermometer (demo)", serial: "T1-55012", validityMonths: 12 }).id;
+  recordThermometerCalibration({ db, sqlite }, qa, findInstrument(db, ids.workshopId, thermometerId), {
+    points: [
+      { referenceC: 15, offsetC: 0.1 },
+      { referenceC: 20, offsetC: 0.2 },
+      { referenceC: 25, offsetC: 0.3 },
+    ],
+    uncertaintyC: 0.1,
+    coverageFactor: 2,
+    certificateNumber: "TC-4471 (invented)",
+    calibratedBy: "Millrace Calibration Services (invented laboratory)",
+    calibratedOn: daysAgo(60),
+  });
+  return { bench: { id: bench, offsetPpm: 18.4 }, tablet: { id: tablet, offsetPpm: -42.7 }, spare: { id: spare, offsetPpm: 27 }, thermometerId };
 }

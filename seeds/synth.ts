@@ -34,3 +34,20 @@ export function synthStrikeWav(opts: { sampleRate?: number; durationS: number; o
     { bits: 16 },
   ).bytes;
 }
+
+/**
+ * A steady reference tone as a recorder with clock offset `offsetPpm` would record it: a
+ * `frequencyHz` tone written at (1 + offset·10⁻⁶)·f and labelled with the nominal sample rate.
+ */
+export function synthReferenceToneWav(opts: { frequencyHz: number; offsetPpm: number; durationS?: number; seed: number; sampleRate?: number }): Uint8Array {
+  return synthWav(
+    {
+      sampleRate: opts.sampleRate ?? 48000,
+      durationS: opts.durationS ?? 4,
+      strikes: [{ onsetS: 0, modes: [{ frequencyHz: opts.frequencyHz * (1 + opts.offsetPpm * 1e-6), amplitude: 0.4, tauS: Infinity }] }],
+      noiseRms: 2e-4,
+      seed: opts.seed,
+    },
+    { bits: 24 },
+  ).bytes;
+}

@@ -19,6 +19,8 @@ import { apiNotFound, errorHandler } from "./middleware/errors.ts";
 import { sameOriginJson } from "./middleware/origin.ts";
 import { batchRoutes } from "./routes/batches.ts";
 import { certificateRoutes } from "./routes/certificates.ts";
+import { evaluationRoutes } from "./routes/evaluations.ts";
+import { instrumentRoutes } from "./routes/instruments.ts";
 import { mailRoutes } from "./routes/mail.ts";
 import { searchRoutes } from "./routes/search.ts";
 import { sessionRoutes } from "./routes/session.ts";
@@ -29,6 +31,7 @@ import type { AnalysisQueue } from "./services/analysis-queue.ts";
 import type { CertificateDeps } from "./services/certificates.ts";
 import type { ReadCache } from "./services/read-cache.ts";
 import type { Storage } from "./services/storage.ts";
+import type { AnalysisPool } from "./workers/analysis-pool.ts";
 
 export type AppDeps = {
   env: Env;
@@ -39,6 +42,8 @@ export type AppDeps = {
   logger: Logger;
   storage: Storage;
   queue: AnalysisQueue;
+  /** The analysis workers, for work answered within a request (reference tones of a calibration). */
+  pool: AnalysisPool;
   certificates: CertificateDeps;
   readCache: ReadCache;
 };
@@ -47,7 +52,7 @@ const clientDir = fileURLToPath(new URL("../dist/client", import.meta.url));
 
 /** The feature routers, in one list: the authorization matrix test walks them. */
 export function apiRouters(deps: AppDeps) {
-  return [sessionRoutes(deps), workshopRoutes(deps), mailRoutes(deps), specRoutes(deps), batchRoutes(deps), strikeRoutes(deps), certificateRoutes(deps), searchRoutes(deps)];
+  return [sessionRoutes(deps), workshopRoutes(deps), mailRoutes(deps), specRoutes(deps), batchRoutes(deps), strikeRoutes(deps), certificateRoutes(deps), searchRoutes(deps), instrumentRoutes(deps), evaluationRoutes(deps)];
 }
 
 export function createApp(deps: AppDeps) {

@@ -16,8 +16,10 @@
  */
 import type { Partial as MeasuredPartial } from "./schemas/analysis.ts";
 import type { CheckResult, EvaluationView, RequirementResult, TuningGuidance, Verdict } from "./schemas/evaluation.ts";
+import type { BudgetComponent, UncertaintyBudget } from "./schemas/instrument.ts";
 import type { DecisionRule, SpecInput, SpecPartial } from "./schemas/spec.ts";
 import { LN_1000, cents, correctToReferenceTemperature } from "./physics.ts";
+import { correctForClock, twoSignificant, type InstrumentCorrection } from "./traceability.ts";
 
 /** One analysed strike segment of a recording (a file may hold several strikes). */
 export type EvaluationStrikeInput = {
@@ -27,13 +29,17 @@ export type EvaluationStrikeInput = {
   /** Ambient temperature at the strike, °C; null when not given (no correction then). */
   temperatureC: number | null;
   partials: MeasuredPartial[];
+  /** The recorder's calibration in force: its offset is removed and its uncertainty used. Absent: the assumed tolerance. */
+  clock?: InstrumentCorrection["clock"];
+  /** The thermometer's calibration in force: its offset is removed from the reading and its uncertainty used. Absent: the assumed tolerance. */
+  thermometer?: InstrumentCorrection["thermometer"];
 };
 
 /** Which measured partial (index into that strike's partials) carries which spec label. */
 export type StrikeLabels = { strikeId: string; segment: number; labels: Record<number, string> };
 
 /** What {@link evaluateUnit} returns: an evaluation row without its storage keys, plus labels. */
-export type UnitEvaluation = Omit<EvaluationView, "id" | "unitId" | "specVersionId" | "createdAt"> & { labels: StrikeLabels[] };
+export type UnitEvaluation = Omit<EvaluationView, "id" | "unitId" | "specVersionId" | "createdAt"> & { labels: StrikeLabels[]; fundamentalBudget: UncertaintyBudget | null };
 
 /** Coverage factor for the expanded uncertainty: k = 2, about 95 % for a normal distribution (GUM §6.3). */
 export const COVERAGE_FACTOR = 2;
@@ -60,8 +66,21 @@ export type EvaluationOptions = {
   clockHalfWidthPpm: number;
   /** Half-width of the thermometer's error, °C (rectangular). */
   thermometerHalfWidthC?: number;
+  /** Half-width of the temperature coefficient's error as a fraction of it (rectangular); absent or 0: the coefficient is taken as exact. */
+  tempCoefficientRelativeHalfWidth?: number;
 };
-export const defaultEvaluationOptions: EvaluationOptions = { clockHalfWidthPpm: SAMPLE_CLOCK_HALF_WIDTH_PPM, thermometerHalfWidthC: THERMOMETER_HALF_WIDTH_C };
+
+/**
+ * Half-width of the temperature coefficient's error, as a fraction of the coefficient. ASSUMPTION
+ * (from memory, no published source): a coefficient taken from a handbook value for the alloy, not
+ * measured on the workshop's own parts, is known to about ±20 %; taken as rectangular (GUM §4.3.7).
+ */
+export const TEMPERATURE_COEFFICIENT_RELATIVE_HALF_WIDTH = 0.2;
+export const defaultEvaluationOptions: EvaluationOptions = {
+  clockHalfWidthPpm: SAMPLE_CLOCK_HALF_WIDTH_PPM,
+  thermometerHalfWidthC: THERMOMETER_HALF_WIDTH_C,
+  tempCoefficientRelativeHalfWidth: TEMPERATURE_COEFFICIENT_RELATIVE_HALF_WIDTH,
+};
 
 /**
  * Search window for matching a measured partial to a requirement, cents either side of the
@@ -302,6 +321,13 @@ type Observation = {
   /** Standard uncertainty of fHz from the fit, Hz. */
   uHz: number;
   hasTemperature: boolean;
+  /** The recording clock's standard uncertainty, ppm, and whether it is the assumed tolerance. */
+  uClockPpm: number;
+  clockAssumed: boolean;
+  /** The temperature's standard uncertainty, °C, whether assumed, and T − T_ref (°C); null without a temperature. */
+  uTemperatureC: number | null;
+  temperatureAssumed: boolean;
+  deltaTC: number | null;
 };
 
 function requireFinite(strike: EvaluationStrikeInput, p: MeasuredPartial, field: keyof MeasuredPartial): number {
@@ -314,31 +340,125 @@ function requireFinite(strike: EvaluationStrikeInput, p: MeasuredPartial, field:
   return v;
 }
 
-function observe(spec: SpecInput, strikes: EvaluationStrikeInput[], matches: (number | null)[][], req: number): (Observation | null)[] {
+function observe(spec: SpecInput, strikes: EvaluationStrikeInput[], matches: (number | null)[][], req: number, opts: EvaluationOptions): (Observation | null)[] {
   return strikes.map((s, strike) => {
     const idx = matches[strike][req];
     if (idx === null) return null;
     const partial = s.partials[idx];
     const f = requireFinite(s, partial, "frequencyHz");
     const u = Math.abs(requireFinite(s, partial, "frequencyUncertaintyHz"));
-    const fHz = temperatureCorrect(f, s.temperatureC, spec);
-    // The correction is a factor; the fit uncertainty scales with it.
-    return { strike, partial, fHz, uHz: (u * fHz) / f, hasTemperature: s.temperatureC !== null };
+    return { strike, partial, ...correctedFrequency(spec, s, f, u, opts) };
   });
+}
+
+/**
+ * One measured frequency through its corrections: the recorder's clock offset first (a calibrated
+ * recorder; f / (1 + offset·10⁻⁶)), then the temperature, read on the thermometer and corrected for
+ * its offset (a calibrated thermometer), to the reference temperature. Without a calibration the
+ * value stays as recorded and the workshop's assumed tolerances (rectangular) enter the budget.
+ */
+function correctedFrequency(spec: SpecInput, s: EvaluationStrikeInput, f: number, u: number, opts: EvaluationOptions): Omit<Observation, "strike" | "partial"> {
+  const clocked = s.clock ? correctForClock(f, s.clock.offsetPpm) : f;
+  const temperatureC = s.temperatureC === null ? null : s.temperatureC - (s.thermometer?.offsetC ?? 0);
+  const fHz = temperatureCorrect(clocked, temperatureC, spec);
+  const assumedClockPpm = opts.clockHalfWidthPpm / Math.sqrt(3);
+  const assumedTemperatureC = (opts.thermometerHalfWidthC ?? THERMOMETER_HALF_WIDTH_C) / Math.sqrt(3);
+  return {
+    fHz,
+    // The corrections are factors; the fit uncertainty scales with them.
+    uHz: (u * fHz) / f,
+    hasTemperature: temperatureC !== null,
+    uClockPpm: s.clock ? s.clock.standardUncertaintyPpm : assumedClockPpm,
+    clockAssumed: !s.clock,
+    uTemperatureC: temperatureC === null ? null : s.thermometer ? s.thermometer.standardUncertaintyC : assumedTemperatureC,
+    temperatureAssumed: temperatureC !== null && !s.thermometer,
+    deltaTC: temperatureC === null ? null : temperatureC - spec.referenceTemperatureC,
+  };
 }
 
 type Frequency = { measuredHz: number; spreadCents: number; uncertaintyHz: number; expandedHz: number };
 
 function combineFrequency(spec: SpecInput, obs: Observation[], opts: EvaluationOptions): Frequency {
+  const budget = frequencyBudget(spec, "", obs, opts);
+  const fs = obs.map((o) => o.fHz);
+  return { measuredHz: budget.measuredHz, spreadCents: cents(Math.max(...fs), Math.min(...fs)), uncertaintyHz: budget.combinedHz, expandedHz: budget.expandedHz };
+}
+
+const ppmWords = (x: number) => `${Number(x.toFixed(3))} ppm`;
+
+/**
+ * The uncertainty budget of a frequency combined across strikes (the median), one component per
+ * input (GUM §5.1.2, uncorrelated inputs, root sum of squares; sensitivities as partial derivatives,
+ * §5.1.3):
+ * - fit: the median of the strikes' own standard uncertainties (the Cramér–Rao bound of the fit);
+ * - scatter: s/√n across n ≥ 2 strikes (type A, §4.2.3);
+ * - clock: the recorder's standard uncertainty in ppm, sensitivity f·10⁻⁶ Hz/ppm — the calibration's
+ *   own, or the assumed half-width/√3 (§4.3.7); the largest among the strikes (a recorder's error is
+ *   shared by all its strikes, so it does not average out);
+ * - thermometer: the reading's standard uncertainty, sensitivity |α|·f Hz/°C, when a temperature
+ *   corrected the frequency; the largest among the strikes;
+ * - temperature coefficient: u(α) = |α|·r/√3 for an assumed relative half-width r, sensitivity
+ *   f·|T − T_ref| (the median over the strikes) in Hz per (1/°C).
+ */
+function frequencyBudget(spec: SpecInput, label: string, obs: Observation[], opts: EvaluationOptions): UncertaintyBudget {
   const fs = obs.map((o) => o.fHz);
   const measuredHz = median(fs);
-  // u_temp = |α|·f·u_T: the sensitivity of f_ref to the temperature reading (GUM §5.1.3), only
-  // when a temperature was given and used for a correction.
-  const uT = (opts.thermometerHalfWidthC ?? THERMOMETER_HALF_WIDTH_C) / Math.sqrt(3);
-  const uTemp = obs.some((o) => o.hasTemperature) ? Math.abs(spec.tempCoefficientPerC) * measuredHz * uT : 0;
-  const uClock = (measuredHz * opts.clockHalfWidthPpm * 1e-6) / Math.sqrt(3);
-  const uncertaintyHz = combinedUncertainty(fs, obs.map((o) => o.uHz), Math.hypot(uTemp, uClock));
-  return { measuredHz, spreadCents: cents(Math.max(...fs), Math.min(...fs)), uncertaintyHz, expandedHz: COVERAGE_FACTOR * uncertaintyHz };
+  const n = obs.length;
+  const components: BudgetComponent[] = [];
+  const uFit = median(obs.map((o) => o.uHz));
+  components.push({ source: "fit", basis: n === 1 ? "decay fit of the strike (its standard uncertainty)" : `decay fit of each strike, median of the ${n} standard uncertainties`, distribution: "normal", standardUncertainty: uFit, unit: "Hz", sensitivity: 1, contributionHz: uFit });
+  const sScatter = n >= 2 ? sampleStdDev(fs) / Math.sqrt(n) : 0;
+  components.push({
+    source: "scatter",
+    basis: n >= 2 ? `standard deviation ${sampleStdDev(fs).toPrecision(3)} Hz over ${n} strikes, divided by √${n}` : "one strike: no scatter between strikes to evaluate",
+    distribution: "normal",
+    standardUncertainty: sScatter,
+    unit: "Hz",
+    sensitivity: 1,
+    contributionHz: sScatter,
+  });
+  const worstClock = obs.reduce((w, o) => (o.uClockPpm > w.uClockPpm ? o : w), obs[0]);
+  components.push({
+    source: "clock",
+    basis: worstClock.clockAssumed
+      ? `assumed ±${ppmWords(opts.clockHalfWidthPpm)} (no valid calibration), half-width/√3`
+      : `recorder calibration, offset corrected; its standard uncertainty ${ppmWords(worstClock.uClockPpm)}`,
+    distribution: worstClock.clockAssumed ? "rectangular" : "normal",
+    standardUncertainty: worstClock.uClockPpm,
+    unit: "ppm",
+    sensitivity: measuredHz * 1e-6,
+    contributionHz: measuredHz * 1e-6 * worstClock.uClockPpm,
+  });
+  const withT = obs.filter((o) => o.uTemperatureC !== null);
+  if (withT.length > 0) {
+    const worstT = withT.reduce((w, o) => (o.uTemperatureC! > w.uTemperatureC! ? o : w), withT[0]);
+    const alpha = Math.abs(spec.tempCoefficientPerC);
+    components.push({
+      source: "thermometer",
+      basis: worstT.temperatureAssumed
+        ? `assumed ±${Number((opts.thermometerHalfWidthC ?? THERMOMETER_HALF_WIDTH_C).toFixed(3))} °C (no valid calibration), half-width/√3`
+        : `thermometer calibration, offset corrected; its standard uncertainty ${Number(worstT.uTemperatureC!.toFixed(4))} °C`,
+      distribution: worstT.temperatureAssumed ? "rectangular" : "normal",
+      standardUncertainty: worstT.uTemperatureC!,
+      unit: "°C",
+      sensitivity: alpha * measuredHz,
+      contributionHz: alpha * measuredHz * worstT.uTemperatureC!,
+    });
+    const rel = opts.tempCoefficientRelativeHalfWidth ?? 0;
+    const uAlpha = (alpha * rel) / Math.sqrt(3);
+    const dT = Math.abs(median(withT.map((o) => o.deltaTC!)));
+    components.push({
+      source: "temperature_coefficient",
+      basis: `${spec.tempCoefficientPerC < 0 ? "−" : ""}${twoSignificant(alpha)} per °C from the specification, ${rel > 0 ? `assumed known to ±${Math.round(rel * 100)} %, half-width/√3` : "taken as exact"}; correction over ${dT.toFixed(2)} °C`,
+      distribution: "rectangular",
+      standardUncertainty: uAlpha,
+      unit: "1/°C",
+      sensitivity: measuredHz * dT,
+      contributionHz: measuredHz * dT * uAlpha,
+    });
+  }
+  const combinedHz = Math.sqrt(components.reduce((s, c) => s + c.contributionHz ** 2, 0));
+  return { label, measuredHz, components, combinedHz, coverageFactor: COVERAGE_FACTOR, expandedHz: COVERAGE_FACTOR * combinedHz };
 }
 
 type Line = RequirementResult & { missingStrikes: number[] };
@@ -548,7 +668,7 @@ export function evaluateUnit(spec: SpecInput, strikes: EvaluationStrikeInput[], 
   });
   const matches = strikes.map((s) => matchPartials(spec, s.partials));
   const fi = fundamentalIndex(spec);
-  const observations = spec.partials.map((_, i) => observe(spec, strikes, matches, i));
+  const observations = spec.partials.map((_, i) => observe(spec, strikes, matches, i, opts));
   const lines: Line[] = new Array(spec.partials.length);
   let fundamental: { line: Line; obs: (Observation | null)[] } | null = null;
   if (fi >= 0) {
@@ -591,7 +711,11 @@ export function evaluateUnit(spec: SpecInput, strikes: EvaluationStrikeInput[], 
     return { strikeId: s.strikeId, segment: s.segment, labels: map };
   });
 
+  const fundamentalObs = fi >= 0 ? observations[fi].filter((o): o is Observation => o !== null) : [];
+  const fundamentalBudget = fundamentalObs.length > 0 ? frequencyBudget(spec, spec.partials[fi].label, fundamentalObs, opts) : null;
+
   return {
+    fundamentalBudget,
     verdict,
     decisionRule: spec.decisionRule,
     strikesUsed: n,

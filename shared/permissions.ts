@@ -19,6 +19,8 @@ export const statement = {
   disposition: ["create", "supersede"],
   certificate: ["read", "issue", "withdraw"],
   audit: ["read"],
+  instrument: ["read", "write"],
+  evaluation: ["create"],
 } as const;
 
 export const ac = createAccessControl(statement);
@@ -32,6 +34,7 @@ const makerGrants = {
   unit: ["read", "create"],
   strike: ["read", "create", "void"],
   certificate: ["read"],
+  instrument: ["read"],
 } satisfies Grants;
 
 const qaGrants = {
@@ -43,6 +46,8 @@ const qaGrants = {
   certificate: ["read", "issue", "withdraw"],
   mail: ["read-certificates"],
   audit: ["read"],
+  instrument: ["read", "write"],
+  evaluation: ["create"],
 } satisfies Grants;
 
 const ownerGrants = {

@@ -17,8 +17,10 @@ import {
   verdictWords,
   type CertificateData,
   type CertificateResult,
+  type CertificateTraceability,
   type LineResult,
 } from "../../shared/schemas/certificate.ts";
+import { twoSignificant } from "../../shared/traceability.ts";
 
 const require = createRequire(import.meta.url);
 const FONTS = {
@@ -195,6 +197,7 @@ export async function renderCertificatePdf(input: CertificateData): Promise<Buff
   drawTitleBlock(doc, data, qr);
   drawParticulars(doc, data);
   drawResults(doc, data);
+  if (data.traceability) drawTraceability(doc, data.traceability);
   drawConformity(doc, data);
   drawAuthorisation(doc, data);
   drawFinePrint(doc, data);
@@ -562,4 +565,111 @@ export function drawEndMark(doc: Doc): void {
   doc.moveTo(MARGIN.left + 60, y).lineTo(cx - w / 2, y).lineWidth(0.6).strokeColor(COLOUR.accent).stroke();
   doc.moveTo(cx + w / 2, y).lineTo(PAGE.width - MARGIN.right - 60, y).stroke();
   doc.text(label, cx - w / 2, y - 5, { width: w, align: "center", lineBreak: false });
+}
+
+// ---------------------------------------------------------------------------------------------
+// Measurement traceability: the instruments behind the results and the fundamental's budget.
+
+interface GridColumn {
+  title: string;
+  width: number;
+  align: "left" | "right";
+}
+
+/** A plain table: a tinted header, zebra rows, thin rules; repeats its header on a new page. */
+function drawGrid(doc: Doc, columns: GridColumn[], rows: { cells: string[]; strong?: boolean }[], fontSize = 7.5): void {
+  const header = () => {
+    doc.font("medium").fontSize(fontSize);
+    const h = Math.max(...columns.map((c) => doc.heightOfString(c.title, { width: c.width - 6 }))) + 7;
+    const y = doc.y;
+    doc.rect(MARGIN.left, y, CONTENT_WIDTH, h).fillColor(COLOUR.accentSoft).fill();
+    let x = MARGIN.left;
+    doc.fillColor(COLOUR.ink);
+    for (const c of columns) {
+      doc.text(c.title, x + 3, y + 3.5, { width: c.width - 6, align: c.align });
+      x += c.width;
+    }
+    doc.y = y + h;
+  };
+  ensureSpace(doc, 40);
+  header();
+  rows.forEach((row, i) => {
+    doc.font(row.strong ? "semibold" : "regular").fontSize(fontSize);
+    const h = Math.max(...columns.map((c, k) => doc.heightOfString(row.cells[k] ?? "", { width: c.width - 6, lineGap: 0.3 }))) + 7;
+    if (doc.y + h > BOTTOM) {
+      doc.addPage();
+      header();
+    }
+    const y = doc.y;
+    if (i % 2 === 1) doc.rect(MARGIN.left, y, CONTENT_WIDTH, h).fillColor(COLOUR.zebra).fill();
+    let x = MARGIN.left;
+    columns.forEach((c, k) => {
+      doc.font(row.strong ? "semibold" : k === 0 ? "medium" : "regular").fontSize(fontSize).fillColor(COLOUR.ink);
+      doc.text(row.cells[k] ?? "", x + 3, y + 3.5, { width: c.width - 6, align: c.align, lineGap: 0.3, features: c.align === "right" ? ["tnum"] : [] });
+      x += c.width;
+    });
+    doc.moveTo(MARGIN.left, y + h).lineTo(PAGE.width - MARGIN.right, y + h).lineWidth(0.4).strokeColor(COLOUR.rule).stroke();
+    doc.y = y + h;
+  });
+  doc.x = MARGIN.left;
+}
+
+const STATUS_WORDS: Record<CertificateTraceability["instruments"][number]["status"], string> = {
+  calibrated: "in calibration",
+  expired: "calibration expired",
+  uncalibrated: "not calibrated",
+  not_named: "not recorded",
+};
+
+/**
+ * The "Measurement traceability" section: whether traceability can be stated (and why not), the
+ * recorder and thermometer with their calibrations and references, and the fundamental's budget
+ * laid out as the usual table of input quantities (component, basis, distribution, standard
+ * uncertainty, sensitivity, contribution), then the combined and the expanded uncertainty (k = 2).
+ */
+function drawTraceability(doc: Doc, t: CertificateTraceability): void {
+  sectionHeading(doc, "Measurement traceability", 60);
+  noticeBox(doc, t.statement, t.traceable ? COLOUR.accentSoft : COLOUR.amendSoft, COLOUR.ink, !t.traceable);
+  if (t.instruments.length > 0) {
+    drawGrid(
+      doc,
+      [
+        { title: "Instrument", width: 112, align: "left" },
+        { title: "Calibration", width: 102, align: "left" },
+        { title: "Result and use", width: 140, align: "left" },
+        { title: "Calibrated against", width: CONTENT_WIDTH - 354, align: "left" },
+      ],
+      t.instruments.map((i) => ({
+        cells: [
+          `${i.role === "recorder" ? "Recorder" : "Thermometer"}: ${i.name}${i.model ? `\n${i.model}` : ""}${i.serial ? `\nserial ${i.serial}` : ""}`,
+          i.calibration ? `${i.calibration.number}\n${i.calibration.calibratedOn}, valid to ${i.calibration.validUntil}\n(${STATUS_WORDS[i.status]})` : STATUS_WORDS[i.status],
+          i.calibration ? i.calibration.result : "no calibration: the assumed tolerance was used",
+          i.calibration ? i.calibration.reference : "\u2014",
+        ],
+      })),
+    );
+  }
+  const b = t.budget;
+  if (!b) return;
+  doc.moveDown(0.6);
+  ensureSpace(doc, 90);
+  doc.font("medium").fontSize(8.5).fillColor(COLOUR.ink).text(`Uncertainty budget of the ${b.label.toLowerCase()} (${b.measuredHz.toFixed(4)} Hz)`, MARGIN.left, doc.y, { width: CONTENT_WIDTH });
+  doc.moveDown(0.2);
+  const rows = b.lines.map((l) => ({ cells: [l.component, l.basis, l.distribution, l.standardUncertainty, l.sensitivity, twoSignificant(l.contributionHz)] }));
+  rows.push({ cells: ["Combined", "root sum of squares of the contributions (components taken as uncorrelated)", "", "", "", twoSignificant(b.combinedHz)] });
+  rows.push({ cells: [`Expanded, k = ${b.coverageFactor}`, `U = ${b.coverageFactor} \u00D7 combined, about 95 % coverage`, "", "", "", twoSignificant(b.expandedHz)], strong: true } as { cells: string[]; strong?: boolean });
+  drawGrid(doc, [
+    { title: "Component", width: 78, align: "left" },
+    { title: "Basis", width: 170, align: "left" },
+    { title: "Distribution", width: 54, align: "left" },
+    { title: "Standard uncertainty", width: 64, align: "right" },
+    { title: "Sensitivity", width: 70, align: "right" },
+    { title: "Contribution (Hz)", width: CONTENT_WIDTH - 436, align: "right" },
+  ], rows);
+  doc.moveDown(0.3);
+  doc
+    .font("regular")
+    .fontSize(7.5)
+    .fillColor(COLOUR.muted)
+    .text("Contribution = |sensitivity| \u00D7 standard uncertainty. A rectangular distribution of half-width a has the standard uncertainty a/\u221A3.", MARGIN.left, doc.y, { width: CONTENT_WIDTH });
 }

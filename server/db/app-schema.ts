@@ -75,8 +75,56 @@ export const workshopProfile = sqliteTable("workshop_profile", {
   /** Instrument tolerances that enter the uncertainty of every measured frequency (see shared/evaluation.ts). */
   clockTolerancePpm: real("clock_tolerance_ppm").notNull().default(50),
   thermometerToleranceC: real("thermometer_tolerance_c").notNull().default(0.5),
+  /** How well the specs' temperature coefficients are known, ± % of the coefficient (an assumption; see shared/evaluation.ts). */
+  tempCoefficientTolerancePercent: real("temp_coefficient_tolerance_percent").notNull().default(20),
   updatedAt: createdAt(),
 });
+
+/** A measuring instrument of the workshop: a recorder (its sample clock) or a thermometer. */
+export const instrument = sqliteTable(
+  "instrument",
+  {
+    id: text("id").primaryKey(),
+    workshopId: text("workshop_id").notNull().references(() => organization.id, { onDelete: "cascade" }),
+    kind: text("kind", { enum: ["recorder", "thermometer"] }).notNull(),
+    name: text("name").notNull(),
+    model: text("model").notNull().default(""),
+    serial: text("serial").notNull().default(""),
+    /** How long a calibration stays valid, months. */
+    validityMonths: integer("validity_months").notNull(),
+    createdBy: text("created_by").references(() => user.id),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("instrument_name_unique").on(t.workshopId, t.name)],
+);
+
+/**
+ * A calibration of an instrument: appended, never changed (a new calibration is a new row). A
+ * recorder's holds the clock offset measured from reference tones; a thermometer's the offsets at
+ * the points of its certificate. Uncertainties are standard (k = 1).
+ */
+export const instrumentCalibration = sqliteTable(
+  "instrument_calibration",
+  {
+    id: text("id").primaryKey(),
+    workshopId: text("workshop_id").notNull().references(() => organization.id, { onDelete: "cascade" }),
+    instrumentId: text("instrument_id").notNull().references(() => instrument.id, { onDelete: "cascade" }),
+    /** Workshop-wide record number, e.g. CAL-2026-0003. */
+    number: text("number").notNull(),
+    calibratedAt: integer("calibrated_at", { mode: "timestamp_ms" }).notNull(),
+    validUntil: integer("valid_until", { mode: "timestamp_ms" }).notNull(),
+    offsetPpm: real("offset_ppm"),
+    offsetUncertaintyPpm: real("offset_uncertainty_ppm"),
+    points: text("points", { mode: "json" }),
+    uncertaintyC: real("uncertainty_c"),
+    certificateNumber: text("certificate_number").notNull().default(""),
+    /** Tones with their measurement, the frequency-dependence check, warnings, reference, who calibrated. */
+    detail: text("detail", { mode: "json" }).notNull(),
+    createdBy: text("created_by").references(() => user.id),
+    createdAt: createdAt(),
+  },
+  (t) => [index("instrument_calibration_instrument_idx").on(t.instrumentId, t.calibratedAt), uniqueIndex("instrument_calibration_number_unique").on(t.workshopId, t.number)],
+);
 
 export const spec = sqliteTable(
   "spec",
@@ -180,6 +228,9 @@ export const strike = sqliteTable(
     durationS: real("duration_s"),
     temperatureC: real("temperature_c"),
     support: text("support"),
+    /** The recorder the strike was recorded with, and the thermometer its temperature was read on. */
+    recorderId: text("recorder_id").references(() => instrument.id),
+    thermometerId: text("thermometer_id").references(() => instrument.id),
     state: text("state", { enum: ["queued", "analysing", "done", "failed"] }).notNull().default("queued"),
     failureCode: text("failure_code"),
     failureReason: text("failure_reason"),
@@ -294,7 +345,7 @@ export const ledgerEntry = sqliteTable(
     id: integer("id").primaryKey({ autoIncrement: true }),
     workshopId: text("workshop_id").notNull().references(() => organization.id, { onDelete: "cascade" }),
     seq: integer("seq").notNull(),
-    kind: text("kind", { enum: ["measurement", "evaluation", "disposition", "release", "strike_void", "certificate_withdrawal"] }).notNull(),
+    kind: text("kind", { enum: ["measurement", "evaluation", "disposition", "release", "strike_void", "certificate_withdrawal", "calibration"] }).notNull(),
     entityId: text("entity_id").notNull(),
     contentHash: text("content_hash").notNull(),
     prevHash: text("prev_hash").notNull(),

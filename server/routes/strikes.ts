@@ -23,6 +23,7 @@ import { audit } from "../services/audit.ts";
 import { findBatch } from "../services/batches.ts";
 import { recordDisposition, supersedeDisposition } from "../services/dispositions.ts";
 import { assertNotDuplicate, findUnit, getStrike, getUnit, insertStrike, nextUnmeasured, strikeFile, voidStrike } from "../services/strikes.ts";
+import { checkStrikeInstruments } from "../services/instruments.ts";
 import type { AppDeps } from "../app.ts";
 
 const HEADER_BYTES = 1 << 20;
@@ -94,6 +95,7 @@ export function strikeRoutes(deps: AppDeps) {
         throw new HttpError(422, "unprocessable", `The sample rate is ${header.sampleRate} Hz; Tinelog accepts ${LIMITS.minRate}–${LIMITS.maxRate} Hz. Record at 44.1 or 48 kHz.`, { audio: "Sample rate out of range" });
       }
       const fields = strikeUploadFieldsSchema.parse(req.body ?? {});
+      checkStrikeInstruments(db, workshopOf(req).id, fields, fields.temperatureC);
       // Again with the real size: a chunked upload declares none before it is read.
       storage.checkRoom(db, workshopOf(req).id, file.size);
       const sha256 = await storage.sha256Of(file.path);
@@ -111,6 +113,8 @@ export function strikeRoutes(deps: AppDeps) {
           format: { sampleRate: header.sampleRate, channels: header.channels, bitsPerSample: header.bitsPerSample, encoding: header.encoding, durationS: header.durationS },
           temperatureC: fields.temperatureC,
           support: fields.support,
+          recorderId: fields.recorderId,
+          thermometerId: fields.thermometerId,
         });
         queue.notify();
         return row;

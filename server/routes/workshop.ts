@@ -1,12 +1,13 @@
 /** The active workshop: its profile (used on certificates and mail), dashboard and audit trail. */
 import { and, desc, eq, inArray } from "drizzle-orm";
 import { Router } from "express";
-import { SAMPLE_CLOCK_HALF_WIDTH_PPM, THERMOMETER_HALF_WIDTH_C } from "../../shared/evaluation.ts";
+import { SAMPLE_CLOCK_HALF_WIDTH_PPM, TEMPERATURE_COEFFICIENT_RELATIVE_HALF_WIDTH, THERMOMETER_HALF_WIDTH_C } from "../../shared/evaluation.ts";
 import { workshopProfileSchema } from "../../shared/schemas/workshop.ts";
 import { auditEvent, certificate, strike, user, workshopProfile } from "../db/schema.ts";
 import { requirePermission, userOf, workshopOf } from "../middleware/guards.ts";
 import { audit } from "../services/audit.ts";
 import { getBatch, listBatches } from "../services/batches.ts";
+import { instrumentsDue } from "../services/instruments.ts";
 import type { AppDeps } from "../app.ts";
 
 
@@ -26,6 +27,7 @@ export function workshopRoutes({ db, readCache }: AppDeps) {
         certificatePrefix: p?.certificatePrefix ?? "TL",
         clockTolerancePpm: p?.clockTolerancePpm ?? SAMPLE_CLOCK_HALF_WIDTH_PPM,
         thermometerToleranceC: p?.thermometerToleranceC ?? THERMOMETER_HALF_WIDTH_C,
+        tempCoefficientTolerancePercent: p?.tempCoefficientTolerancePercent ?? TEMPERATURE_COEFFICIENT_RELATIVE_HALF_WIDTH * 100,
       },
     });
   });
@@ -50,7 +52,7 @@ export function workshopRoutes({ db, readCache }: AppDeps) {
       const detail = readCache.get(`batch:${w}:${b.id}`, () => getBatch(db, w, b.id));
       return n + detail.rows.filter((r) => r.open && r.verdict !== null && r.verdict !== "within_tolerance" && r.pendingStrikes === 0).length;
     }, 0);
-    res.json({ openBatches, awaitingReview, released: batches.length - openBatches.length });
+    res.json({ openBatches, awaitingReview, released: batches.length - openBatches.length, instrumentsDue: instrumentsDue(db, w) });
   });
 
   r.get("/audit", requirePermission("audit", "read"), (req, res) => {

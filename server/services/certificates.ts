@@ -36,6 +36,7 @@ import { audit, type Actor } from "./audit.ts";
 import { certifiability } from "./certification.ts";
 import { findAnyCertificate, findByVerificationCode, nextNumber, pdfKeyOf, pdfPath, storeWithRow, withdrawalsOf, withWorkshopNumbering, type AnyCertificate } from "./certificate-store.ts";
 import { appendToChain } from "./ledger-chain.ts";
+import { certificateTraceability, measuredTemperatures } from "./certificate-traceability.ts";
 import { getSpecVersion } from "./specs.ts";
 import { findUnit } from "./strikes.ts";
 
@@ -105,7 +106,7 @@ function buildData(deps: CertificateDeps, actor: Issuer, unitId: string, input: 
   const ev = standing.evaluation;
   const spec = getSpecVersion(db, actor.workshopId, ev.specVersionId)!;
   const strikes = strikeFacts(db, [unitId]);
-  const temps = strikes.map((s) => s.temperatureC).filter((t): t is number => t !== null);
+  const temps = measuredTemperatures(ev, strikes.map((s) => s.temperatureC));
   const results = resultLines(ev);
   if (!results.length) throw conflict(`Unit ${u.serial}'s evaluation has no measured partial to report.`);
   const w = profileOf(db, actor.workshopId);
@@ -142,6 +143,7 @@ function buildData(deps: CertificateDeps, actor: Issuer, unitId: string, input: 
     authorisedBy: { name: actor.name, role: roleLabels[actor.role] },
     authorisedAt: ident.issuedAt.toISOString(),
     flags: { measurementOnlyCaution: measurementOnlyCaution(spec) },
+    traceability: certificateTraceability(db, actor.workshopId, ev),
   };
   return { data, evaluation: ev };
 }

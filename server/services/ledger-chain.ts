@@ -1,13 +1,13 @@
 /**
- * The hash chain over the quality record (measurement, evaluation, disposition, release, and the
- * corrections: strike voids and certificate withdrawals). Each entry
+ * The hash chain over the quality record (measurement, evaluation, disposition, release, calibration, and
+ * the corrections: strike voids and certificate withdrawals). Each entry
  * holds sha256(canonical row) and the previous entry's hash within the workshop, so changing any
  * byte of a chained row, or removing an entry, breaks every hash after it.
  */
 import { createHash } from "node:crypto";
 import type { Sqlite } from "../db/client.ts";
 
-export type ChainKind = "measurement" | "evaluation" | "disposition" | "release" | "strike_void" | "certificate_withdrawal";
+export type ChainKind = "measurement" | "evaluation" | "disposition" | "release" | "strike_void" | "certificate_withdrawal" | "calibration";
 
 const tableOf: Record<ChainKind, string> = {
   measurement: "measurement",
@@ -16,6 +16,7 @@ const tableOf: Record<ChainKind, string> = {
   release: "batch",
   strike_void: "strike_void",
   certificate_withdrawal: "certificate_withdrawal",
+  calibration: "instrument_calibration",
 };
 
 /**

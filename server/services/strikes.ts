@@ -5,14 +5,17 @@ import type { AnalysisResult } from "../../shared/schemas/analysis.ts";
 import type { EvaluationView } from "../../shared/schemas/evaluation.ts";
 import type { Support, SpecVersion } from "../../shared/schemas/spec.ts";
 import type { StrikeDetail, StrikeSummary, UnitDetail } from "../../shared/schemas/strike.ts";
-import { evaluateUnit, matchPartials, SAMPLE_CLOCK_HALF_WIDTH_PPM, THERMOMETER_HALF_WIDTH_C, type EvaluationStrikeInput } from "../../shared/evaluation.ts";
+import { evaluateUnit, matchPartials, type EvaluationStrikeInput } from "../../shared/evaluation.ts";
 import { can, type RoleName } from "../../shared/permissions.ts";
+import type { EvaluationTraceability, StrikeCorrection } from "../../shared/schemas/instrument.ts";
+import { instrumentNotes, type InstrumentCorrection } from "../../shared/traceability.ts";
 import type { Db, Sqlite } from "../db/client.ts";
-import { disposition, evaluation, measurement, partial, strike, strikeVoid, unit, user, workshopProfile } from "../db/schema.ts";
+import { batch, disposition, evaluation, measurement, partial, strike, strikeVoid, unit, user } from "../db/schema.ts";
 import { conflict, forbidden, notFound } from "../http-error.ts";
 import { audit, type Actor } from "./audit.ts";
 import { latestEvaluations, findBatch, standingDispositions } from "./batches.ts";
 import { certifiability } from "./certification.ts";
+import { instrumentNames, strikeCorrections, workshopEvaluationOptions } from "./instruments.ts";
 import { appendToChain } from "./ledger-chain.ts";
 import { getSpecVersion } from "./specs.ts";
 import { voidsByUnit, type StrikeVoidRow } from "./strike-voids.ts";
@@ -41,7 +44,9 @@ function fundamentalOf(result: AnalysisResult | null, labels: Record<number, str
   return idx !== undefined ? partials[Number(idx)].frequencyHz : null;
 }
 
-function toSummary(row: StrikeRow, by: { id: string; name: string } | null, fundamentalHz: number | null, voided: StrikeVoidRow | undefined): StrikeSummary {
+type Names = Map<string, { id: string; name: string }>;
+
+function toSummary(row: StrikeRow, by: { id: string; name: string } | null, fundamentalHz: number | null, voided: StrikeVoidRow | undefined, instruments: Names): StrikeSummary {
   return {
     id: row.id,
     unitId: row.unitId,
@@ -59,6 +64,8 @@ function toSummary(row: StrikeRow, by: { id: string; name: string } | null, fund
     durationS: row.durationS,
     fundamentalHz,
     voided: voided ? { at: voided.at.toISOString(), reason: voided.reason, by: voided.by } : null,
+    recorder: row.recorderId ? instruments.get(row.recorderId) ?? null : null,
+    thermometer: row.thermometerId ? instruments.get(row.thermometerId) ?? null : null,
   };
 }
 
@@ -81,6 +88,9 @@ export type NewStrike = {
   format: { sampleRate: number; channels: number; bitsPerSample: number; encoding: string; durationS: number };
   temperatureC: number | null;
   support: Support | null;
+  /** The instruments named at upload (checked by checkStrikeInstruments). */
+  recorderId?: string | null;
+  thermometerId?: string | null;
 };
 
 /** Refuses a second upload of the same bytes to the same unit, naming the first; a voided strike's file may come back. */
@@ -106,16 +116,19 @@ export function insertStrike(db: Db, actor: Actor, s: NewStrike): StrikeRow {
     assertNotDuplicate(tx as unknown as Db, s.unitId, s.sha256);
     const row = tx
       .insert(strike)
-      .values({ id, workshopId: actor.workshopId, unitId: s.unitId, uploadedBy: actor.userId, originalName: s.originalName, sha256: s.sha256, fileKey: s.fileKey, sizeBytes: s.sizeBytes, ...s.format, temperatureC: s.temperatureC, support: s.support, state: "queued" })
+      .values({ id, workshopId: actor.workshopId, unitId: s.unitId, uploadedBy: actor.userId, originalName: s.originalName, sha256: s.sha256, fileKey: s.fileKey, sizeBytes: s.sizeBytes, ...s.format, temperatureC: s.temperatureC, support: s.support, recorderId: s.recorderId ?? null, thermometerId: s.thermometerId ?? null, state: "queued" })
       .returning()
       .get();
-    audit(tx, actor, "strike.upload", "strike", id, { after: { unitId: s.unitId, originalName: s.originalName, sha256: s.sha256 } });
+    audit(tx, actor, "strike.upload", "strike", id, { after: { unitId: s.unitId, originalName: s.originalName, sha256: s.sha256, recorderId: s.recorderId ?? null, thermometerId: s.thermometerId ?? null } });
     return row;
   });
 }
 
-/** Inputs of the evaluation: every analysed strike segment of the unit, voided strikes left out. */
-function evaluationInputs(db: Db, unitId: string): EvaluationStrikeInput[] {
+/**
+ * Inputs of the evaluation: every analysed strike segment of the unit (voided strikes left out), each
+ * with the correction of its recorder and thermometer (the calibrations in force when it was measured).
+ */
+function evaluationInputs(db: Db, workshopId: string, unitId: string, assumed: Parameters<typeof strikeCorrections>[3]): { inputs: EvaluationStrikeInput[]; corrections: InstrumentCorrection[] } {
   const rows = db
     .select({ s: strike, result: measurement.result })
     .from(strike)
@@ -124,9 +137,12 @@ function evaluationInputs(db: Db, unitId: string): EvaluationStrikeInput[] {
     .where(and(eq(strike.unitId, unitId), eq(strike.state, "done"), isNull(strikeVoid.id)))
     .orderBy(asc(strike.uploadedAt))
     .all();
-  return rows.flatMap(({ s, result }) =>
-    (result as AnalysisResult).strikes.map((seg, segment) => ({ strikeId: s.id, segment, temperatureC: s.temperatureC, partials: seg.partials })),
-  );
+  const byStrike = strikeCorrections(db, workshopId, rows.map((r) => r.s), assumed);
+  const inputs = rows.flatMap(({ s, result }) => {
+    const c = byStrike.get(s.id)!;
+    return (result as AnalysisResult).strikes.map((seg, segment) => ({ strikeId: s.id, segment, temperatureC: s.temperatureC, partials: seg.partials, clock: c.clock, thermometer: c.thermometer }));
+  });
+  return { inputs, corrections: rows.map((r) => byStrike.get(r.s.id)!) };
 }
 
 /**
@@ -171,22 +187,51 @@ export function recordAnalysis(db: Db, sqlite: Sqlite, strikeId: string, result:
   });
 }
 
-/** Appends a new evaluation of the unit from all its analysed strikes. */
-export function evaluateAndRecord(db: Db, sqlite: Sqlite, workshopId: string, unitId: string): void {
+/**
+ * Appends a new evaluation of the unit from all its analysed strikes (after each analysis, or when
+ * someone asks for a re-evaluation: `actor` then names them). Returns the new evaluation's id.
+ */
+export function evaluateAndRecord(db: Db, sqlite: Sqlite, workshopId: string, unitId: string, actor: Actor = { workshopId, userId: null }): string | null {
   const u = findUnit(db, workshopId, unitId);
   const { spec } = specForUnit(db, workshopId, u);
-  const inputs = evaluationInputs(db, unitId);
-  if (!inputs.length) return;
-  const profile = db.select().from(workshopProfile).where(eq(workshopProfile.workshopId, workshopId)).get();
-  const opts = { clockHalfWidthPpm: profile?.clockTolerancePpm ?? SAMPLE_CLOCK_HALF_WIDTH_PPM, thermometerHalfWidthC: profile?.thermometerToleranceC ?? THERMOMETER_HALF_WIDTH_C };
-  const { labels: _labels, ...evaluated } = evaluateUnit(spec, inputs, opts);
-  // The tolerances used stay with the evaluation: a later change of the profile does not rewrite history;
-  // the strikes used let a later void tell which evaluations it makes stale.
-  const view = { ...evaluated, assumptions: opts, strikeIds: [...new Set(inputs.map((i) => i.strikeId))] };
+  const opts = workshopEvaluationOptions(db, workshopId);
+  const { inputs, corrections } = evaluationInputs(db, workshopId, unitId, opts);
+  if (!inputs.length) return null;
+  const { labels: _labels, fundamentalBudget, ...evaluated } = evaluateUnit(spec, inputs, opts);
+  // The tolerances and calibrations used stay with the evaluation: a later change of the settings or a
+  // new calibration does not rewrite history; the strikes used let a later void tell which evaluations
+  // it makes stale.
+  const view = {
+    ...evaluated,
+    assumptions: opts,
+    traceability: evaluationTraceability(corrections.map((c) => c.correction), opts, fundamentalBudget),
+    strikeIds: [...new Set(inputs.map((i) => i.strikeId))],
+  };
   const id = randomUUID();
   db.insert(evaluation).values({ id, workshopId, unitId, specVersionId: spec.id, verdict: view.verdict, detail: view }).run();
   appendToChain(sqlite, workshopId, "evaluation", id);
-  audit(db, { workshopId, userId: null }, "unit.evaluate", "unit", unitId, { after: { evaluationId: id, verdict: view.verdict } });
+  audit(db, actor, actor.userId ? "unit.reevaluate" : "unit.evaluate", "unit", unitId, { after: { evaluationId: id, verdict: view.verdict, traceable: view.traceability.traceable } });
+  return id;
+}
+
+/** What an evaluation records of its instruments: per strike the correction, the notes, and the fundamental's budget. */
+function evaluationTraceability(corrections: StrikeCorrection[], assumed: Parameters<typeof instrumentNotes>[1], budget: EvaluationTraceability["budget"]): EvaluationTraceability {
+  return { strikes: corrections, ...instrumentNotes(corrections, assumed), budget };
+}
+
+/**
+ * An explicit re-evaluation: appends a new evaluation from the unit's strikes with the calibrations
+ * as they stand now (for example a thermometer certificate entered later). Earlier evaluations stay.
+ */
+export function reevaluateUnit(db: Db, sqlite: Sqlite, actor: Actor, unitId: string): UnitDetail {
+  const u = findUnit(db, actor.workshopId, unitId);
+  const b = findBatch(db, actor.workshopId, u.batchId);
+  if (b.state === "released") throw conflict(`Batch ${b.code} is released; its evaluations are final.`);
+  const pending = db.select({ id: strike.id }).from(strike).where(and(eq(strike.unitId, unitId), inArray(strike.state, ["queued", "analysing"]))).get();
+  if (pending) throw conflict(`A strike of unit ${u.serial} is still being analysed; it is evaluated when the analysis ends.`);
+  const id = db.transaction((tx) => evaluateAndRecord(tx as unknown as Db, sqlite, actor.workshopId, unitId, actor));
+  if (!id) throw conflict(`Unit ${u.serial} has no analysed strike to evaluate; measure it first.`);
+  return getUnit(db, actor.workshopId, unitId);
 }
 
 export function markFailed(db: Db, strikeId: string, code: string, reason: string): void {
@@ -210,8 +255,11 @@ export function getStrike(db: Db, workshopId: string, strikeId: string): StrikeD
   }
   const fundamentalLabel = spec.partials.find((p) => p.isFundamental)?.label;
   const voided = voidsByUnit(db, [u.id]).get(u.id)?.find((v) => v.strikeId === row.id);
+  const { correction, appliedIn } = strikeCorrectionOf(db, workshopId, row);
   return {
-    ...toSummary(row, by, fundamentalOf(result, labels, fundamentalLabel), voided),
+    ...toSummary(row, by, fundamentalOf(result, labels, fundamentalLabel), voided, instrumentNames(db, workshopId, [row.recorderId, row.thermometerId])),
+    correction,
+    appliedIn,
     analyserVersion: m?.analyserVersion ?? null,
     bitsPerSample: row.bitsPerSample,
     encoding: row.encoding,
@@ -222,6 +270,15 @@ export function getStrike(db: Db, workshopId: string, strikeId: string): StrikeD
     unit: { id: u.id, serial: u.serial, batchId: b.id, batchCode: b.code },
     labels,
   };
+}
+
+/** The strike's correction as the unit's latest evaluation applied it, or as it will be applied. */
+function strikeCorrectionOf(db: Db, workshopId: string, row: StrikeRow): { correction: StrikeCorrection; appliedIn: StrikeDetail["appliedIn"] } {
+  const ev = latestEvaluations(db, [row.unitId]).get(row.unitId);
+  const applied = ev?.traceability?.strikes.find((c) => c.strikeId === row.id);
+  if (ev && applied) return { correction: applied, appliedIn: { evaluationId: ev.id, at: ev.createdAt } };
+  const correction = strikeCorrections(db, workshopId, [row], workshopEvaluationOptions(db, workshopId)).get(row.id)!.correction;
+  return { correction, appliedIn: null };
 }
 
 export function strikeFile(db: Db, workshopId: string, strikeId: string) {
@@ -247,10 +304,11 @@ export function getUnit(db: Db, workshopId: string, unitId: string): UnitDetail 
       : [],
   );
   const voids = new Map((voidsByUnit(db, [unitId]).get(unitId) ?? []).map((v) => [v.strikeId, v]));
+  const names = instrumentNames(db, workshopId, rows.flatMap((r) => [r.s.recorderId, r.s.thermometerId]));
   const strikes = rows.map(({ s, by }) => {
     const result = results.get(s.id) ?? null;
     const labels = result ? specLabels(spec, result.strikes[0]?.partials ?? []) : {};
-    return toSummary(s, by?.id ? by : null, fundamentalOf(result, labels, fundamentalLabel), voids.get(s.id));
+    return toSummary(s, by?.id ? by : null, fundamentalOf(result, labels, fundamentalLabel), voids.get(s.id), names);
   });
   const evals = latestEvaluations(db, [unitId]);
   const ev: EvaluationView | null = evals.get(unitId) ?? null;

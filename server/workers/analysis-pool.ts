@@ -6,6 +6,7 @@
 import { availableParallelism } from "node:os";
 import { Piscina } from "piscina";
 import { AnalysisInputError } from "../analysis/errors";
+import { ReferenceToneRefused, type ReferenceToneMeasurement } from "../analysis/reference-tone";
 import type { AnalysisResult } from "../../shared/schemas/analysis";
 import type { AnalysisReply, AnalysisTask } from "./analysis-worker";
 
@@ -19,6 +20,8 @@ export class PoolBusyError extends Error {
 
 export interface AnalysisPool {
   analyzeFile(path: string, opts?: { plot?: boolean }): Promise<AnalysisResult>;
+  /** Measures a reference tone recording (a recorder calibration); rejects with ReferenceToneRefused or AnalysisInputError. */
+  measureReferenceFile(path: string, expectedHz: number): Promise<ReferenceToneMeasurement>;
   close(): Promise<void>;
   readonly queued: number;
   readonly running: number;
@@ -38,20 +41,30 @@ export function createAnalysisPool(opts: { maxThreads?: number; maxQueue?: numbe
   });
   let inFlight = 0;
   let closed = false;
+  async function run(task: AnalysisTask): Promise<Extract<AnalysisReply, { ok: true }>> {
+    if (closed) throw new Error("The analysis pool is closed.");
+    if (inFlight >= maxThreads + maxQueue) throw new PoolBusyError();
+    inFlight++;
+    try {
+      const reply = (await pool.run(task)) as AnalysisReply;
+      if (reply.ok) return reply;
+      if (reply.kind === "input") throw new AnalysisInputError(reply.code, reply.message);
+      if (reply.kind === "refused") throw new ReferenceToneRefused(reply.code, reply.message);
+      throw new Error(reply.message);
+    } finally {
+      inFlight--;
+    }
+  }
   return {
     async analyzeFile(path: string, o?: { plot?: boolean }): Promise<AnalysisResult> {
-      if (closed) throw new Error("The analysis pool is closed.");
-      if (inFlight >= maxThreads + maxQueue) throw new PoolBusyError();
-      inFlight++;
-      try {
-        const task: AnalysisTask = { path, plot: o?.plot };
-        const reply = (await pool.run(task)) as AnalysisReply;
-        if (reply.ok) return reply.result;
-        if (reply.kind === "input") throw new AnalysisInputError(reply.code, reply.message);
-        throw new Error(reply.message);
-      } finally {
-        inFlight--;
-      }
+      const reply = await run({ path, plot: o?.plot });
+      if (!("result" in reply)) throw new Error("The analysis worker answered a strike with a reference measurement.");
+      return reply.result;
+    },
+    async measureReferenceFile(path: string, expectedHz: number): Promise<ReferenceToneMeasurement> {
+      const reply = await run({ path, referenceHz: expectedHz });
+      if (!("reference" in reply)) throw new Error("The analysis worker answered a reference tone with a strike analysis.");
+      return reply.reference;
     },
     async close(): Promise<void> {
       closed = true;

@@ -90,6 +90,57 @@ export type Concession = z.infer<typeof concessionSchema>;
 /** Set only when a withdrawn certificate is shown again: the mark is not part of what was signed. */
 export const withdrawnMarkSchema = z.object({ at: isoDateTime, reason: text("The withdrawal reason") });
 export type WithdrawnMark = z.infer<typeof withdrawnMarkSchema>;
+/** One measuring instrument behind the results, with the calibration in force when they were measured. */
+export const certificateInstrumentSchema = z.object({
+  role: z.enum(["recorder", "thermometer"]),
+  name: text("The instrument's name"),
+  model: z.string(),
+  serial: z.string(),
+  /** calibrated: in calibration when used; expired / uncalibrated: the assumed tolerance was used; not_named: no instrument was recorded. */
+  status: z.enum(["calibrated", "expired", "uncalibrated", "not_named"]),
+  calibration: z
+    .object({
+      number: text("The calibration's record number"),
+      calibratedOn: isoDate,
+      validUntil: isoDate,
+      /** What the calibration found and how it was used, e.g. "clock offset +18.40 ppm, U = 1.20 ppm (k = 2), corrected". */
+      result: text("The calibration result"),
+      /** What it was calibrated against: reference, its certificate and uncertainty. */
+      reference: text("The calibration reference"),
+    })
+    .nullable(),
+});
+export type CertificateInstrument = z.infer<typeof certificateInstrumentSchema>;
+
+/** One line of the fundamental's uncertainty budget, as printed (values already in words and units). */
+export const budgetLineSchema = z.object({
+  component: text("A budget component"),
+  basis: text("A budget line's basis"),
+  distribution: z.enum(["normal", "rectangular"]),
+  standardUncertainty: text("A standard uncertainty"),
+  sensitivity: text("A sensitivity coefficient"),
+  /** Contribution to the combined standard uncertainty, Hz. */
+  contributionHz: z.number().nonnegative(),
+});
+
+/** The chain behind the results: instruments, their calibrations and references, and the fundamental's budget. */
+export const certificateTraceabilitySchema = z.object({
+  /** True only when every instrument was within a valid calibration when the unit was measured. */
+  traceable: z.boolean(),
+  statement: text("The traceability statement"),
+  instruments: z.array(certificateInstrumentSchema),
+  budget: z
+    .object({
+      label: text("The budget's partial"),
+      measuredHz: z.number().positive(),
+      lines: z.array(budgetLineSchema).min(1),
+      combinedHz: z.number().nonnegative(),
+      coverageFactor: z.number().positive(),
+      expandedHz: z.number().nonnegative(),
+    })
+    .nullable(),
+});
+export type CertificateTraceability = z.infer<typeof certificateTraceabilitySchema>;
 
 export const certificateDataSchema = z.object({
   /** The certificate's unique number, printed on every page. */
@@ -153,6 +204,8 @@ export const certificateDataSchema = z.object({
   }),
   /** When and why the certificate was withdrawn; the PDF then carries a WITHDRAWN mark. Never signed. */
   withdrawn: withdrawnMarkSchema.nullable().optional(),
+  /** The measurement chain; absent on certificates issued before instruments were recorded. */
+  traceability: certificateTraceabilitySchema.optional(),
 });
 export type CertificateData = z.infer<typeof certificateDataSchema>;
 

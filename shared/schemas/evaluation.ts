@@ -1,4 +1,5 @@
 /** A unit's evaluation against its spec version (DESIGN.md §5). */
+import type { EvaluationTraceability } from "./instrument.ts";
 import type { DecisionRule } from "./spec.ts";
 
 export const verdicts = ["within_tolerance", "out_of_tolerance", "inconclusive"] as const;
@@ -76,9 +77,11 @@ export type EvaluationView = {
   /** Plain-words reasons for the verdict (what failed, why inconclusive). */
   reasons: string[];
   guidance: TuningGuidance | null;
-  /** Instrument tolerances (half-widths, rectangular) that entered the uncertainties. */
-  assumptions?: { clockHalfWidthPpm: number; thermometerHalfWidthC?: number };
+  /** Instrument tolerances (half-widths, rectangular) assumed where an instrument had no valid calibration. */
+  assumptions?: { clockHalfWidthPpm: number; thermometerHalfWidthC?: number; tempCoefficientRelativeHalfWidth?: number };
   /** The strikes this evaluation was made from (absent in evaluations recorded before voids existed). */
   strikeIds?: string[];
+  /** The instruments of each strike, the calibrations applied, and the fundamental's uncertainty budget. */
+  traceability?: EvaluationTraceability;
   createdAt: string;
 };

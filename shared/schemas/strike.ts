@@ -4,6 +4,7 @@ import type { AnalysisResult } from "./analysis.ts";
 import type { DispositionDecision, BatchState } from "./batch.ts";
 import type { EvaluationView } from "./evaluation.ts";
 import type { Concession } from "./certificate.ts";
+import type { StrikeCorrection } from "./instrument.ts";
 import { supports, type Family, type Support } from "./spec.ts";
 
 export const strikeStates = ["queued", "analysing", "done", "failed"] as const;
@@ -15,6 +16,15 @@ export const strikeStateLabels: Record<StrikeState, string> = {
   failed: "Failed",
 };
 
+const instrumentId = (what: string) =>
+  z
+    .union([z.literal(""), z.string().trim().max(64, `That is not a ${what} id.`)])
+    .optional()
+    .transform((v) => (v === "" || v === undefined ? null : v));
+
+/** The instruments a strike was measured with: the recorder, and the thermometer its temperature was read on. */
+export const strikeInstrumentFields = { recorderId: instrumentId("recorder"), thermometerId: instrumentId("thermometer") };
+
 /** The multipart fields beside the `audio` file (strings on the wire). */
 export const strikeUploadFieldsSchema = z.object({
   temperatureC: z
@@ -25,6 +35,7 @@ export const strikeUploadFieldsSchema = z.object({
     .union([z.literal(""), z.enum(supports, { error: "Support must be one of: hand, suspended, stand, other" })])
     .optional()
     .transform((v) => (v === "" || v === undefined ? null : v)),
+  ...strikeInstrumentFields,
 });
 export type StrikeUploadFields = z.infer<typeof strikeUploadFieldsSchema>;
 
@@ -47,6 +58,9 @@ export type StrikeSummary = {
   fundamentalHz: number | null;
   /** Set when the strike was taken out of the record: it stays listed, struck through, and is not evaluated. */
   voided: { at: string; reason: string; by: { id: string; name: string } | null } | null;
+  /** The instruments named at upload. */
+  recorder: { id: string; name: string } | null;
+  thermometer: { id: string; name: string } | null;
 };
 
 export type StrikeDetail = StrikeSummary & {
@@ -62,6 +76,13 @@ export type StrikeDetail = StrikeSummary & {
   unit: { id: string; serial: string; batchId: string; batchCode: string };
   /** Labels of the spec's partials matched to this strike's partials: index in result.strikes[0].partials → label. */
   labels: Record<number, string>;
+  /**
+   * The correction of this strike's frequencies and temperature: as applied in the unit's latest
+   * evaluation (`appliedIn`), or, before any evaluation used it, as it will be applied (`appliedIn` null).
+   * The partials above stay as recorded.
+   */
+  correction: StrikeCorrection;
+  appliedIn: { evaluationId: string; at: string } | null;
 };
 
 export type UnitDetail = {

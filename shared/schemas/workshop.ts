@@ -55,5 +55,7 @@ export const workshopProfileSchema = z.object({
   clockTolerancePpm: z.number({ error: "Give the clock tolerance in ppm" }).min(0, "0 ppm or more").max(1000, "At most 1000 ppm"),
   /** ± half-width of the thermometer's error, °C. */
   thermometerToleranceC: z.number({ error: "Give the thermometer tolerance in °C" }).min(0, "0 °C or more").max(10, "At most 10 °C"),
+  /** ± how well the specs' temperature coefficients are known, % of the coefficient (20 when not measured: an assumption). */
+  tempCoefficientTolerancePercent: z.number({ error: "Give the coefficient's tolerance in %" }).min(0, "0 % or more").max(100, "At most 100 %").optional().default(20),
 });
-export type WorkshopProfileInput = z.infer<typeof workshopProfileSchema>;
+export type WorkshopProfileInput = z.input<typeof workshopProfileSchema>;

@@ -13,6 +13,8 @@ import { BatchLedgerRoute, batchLedgerLoader } from "./routes/app/batches/batch-
 import { BatchNewRoute, batchNewLoader } from "./routes/app/batches/batch-new";
 import { BatchesListRoute, batchesListLoader } from "./routes/app/batches/batches-list";
 import { DashboardRoute, dashboardLoader } from "./routes/app/dashboard";
+import { InstrumentRoute, instrumentLoader } from "./routes/app/instruments/instrument";
+import { InstrumentsListRoute, instrumentsListLoader } from "./routes/app/instruments/instruments-list";
 import { SettingsRoute, settingsLoader } from "./routes/app/settings";
 import { SpecDetailRoute, specDetailLoader } from "./routes/app/specs/spec-detail";
 import { SpecEditRoute, specEditLoader } from "./routes/app/specs/spec-edit";
@@ -82,6 +84,8 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
                 { path: paths.app.specification.path, loader: specDetailLoader(queryClient), element: <SpecDetailRoute /> },
                 { path: paths.app.editSpecification.path, loader: specEditLoader(queryClient), element: <SpecEditRoute /> },
                 { path: paths.app.settings.path, loader: settingsLoader(queryClient), element: <SettingsRoute /> },
+                { path: paths.app.instruments.path, loader: instrumentsListLoader(queryClient), element: <InstrumentsListRoute /> },
+                { path: paths.app.instrument.path, loader: instrumentLoader(queryClient), element: <InstrumentRoute /> },
                 { path: paths.app.members.path, loader: membersLoader(queryClient), element: <MembersRoute /> },
                 { path: paths.app.outbox.path, loader: outboxLoader(queryClient), element: <OutboxRoute /> },
                 { path: paths.app.outboxMessage.path, loader: outboxMessageLoader(queryClient), element: <OutboxMessageRoute /> },

@@ -40,13 +40,23 @@ export function uploadForm<T>(url: string, form: FormData, onProgress?: (progres
 }
 
 /** One WAV strike and the conditions it was recorded under, as the unit and batch uploads take it. */
-export type StrikeUploadInput = { file: File; temperatureC?: number | null; support?: Support | null; onProgress?: (progress: UploadProgress) => void };
+export type StrikeUploadInput = {
+  file: File;
+  temperatureC?: number | null;
+  support?: Support | null;
+  /** The recorder it was recorded with, and the thermometer the temperature was read on. */
+  recorderId?: string | null;
+  thermometerId?: string | null;
+  onProgress?: (progress: UploadProgress) => void;
+};
 
-/** The multipart body of a strike upload: optional temperature (°C) and support, then the audio. */
-export function strikeUploadForm({ file, temperatureC, support }: StrikeUploadInput): FormData {
+/** The multipart body of a strike upload: optional temperature (°C), support and instruments, then the audio. */
+export function strikeUploadForm({ file, temperatureC, support, recorderId, thermometerId }: StrikeUploadInput): FormData {
   const form = new FormData();
   if (temperatureC != null) form.append("temperatureC", String(temperatureC));
   if (support) form.append("support", support);
+  if (recorderId) form.append("recorderId", recorderId);
+  if (thermometerId) form.append("thermometerId", thermometerId);
   form.append("audio", file, file.name);
   return form;
 }

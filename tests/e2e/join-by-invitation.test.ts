@@ -63,7 +63,7 @@ describe("joining a workshop by invitation", () => {
     await page.getByText(`${demo.workshopName} · you work here as Quality.`).waitFor();
     const links = (await page.getByRole("navigation", { name: "Main" }).getByRole("link").allTextContents()).map((t) => t.replace(/soon$/, "").trim());
     // Quality reads the certificate mail it sends, so the Outbox is there too (not Members or Settings).
-    expect(links).toEqual(["Dashboard", "Batches", "Specifications", "Outbox"]);
+    expect(links).toEqual(["Dashboard", "Batches", "Specifications", "Instruments", "Outbox"]);
     await screenshot(page, "e2e-portrait-qa-dashboard");
   });
 

@@ -35,7 +35,7 @@ describe("signing in as the demo maker", () => {
 
     const nav = page.getByRole("navigation", { name: "Main" });
     const links = (await nav.getByRole("link").allTextContents()).map((text) => text.replace(/soon$/, "").trim());
-    expect(links).toEqual(["Dashboard", "Batches", "Specifications"]);
+    expect(links).toEqual(["Dashboard", "Batches", "Specifications", "Instruments"]);
     await screenshot(page, "e2e-maker-dashboard");
   });
 

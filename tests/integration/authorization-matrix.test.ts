@@ -9,11 +9,11 @@
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { apiRouters } from "../../server/app.ts";
-import { batch, disposition, mailMessage, spec, unit } from "../../server/db/schema.ts";
+import { batch, disposition, instrument, mailMessage, spec, unit } from "../../server/db/schema.ts";
 import { ORIGIN, startTestApp, type TestApp, type Who } from "../support/app.ts";
 import { toneWav } from "../support/wav.ts";
 
-type Ids = { spec: string; batch: string; openBatch: string; unit: string; releasedUnit: string; strike: string; mail: string; certificateMail: string; invitation: string; certificate: string; verifyCode: string; disposition: string };
+type Ids = { spec: string; batch: string; openBatch: string; unit: string; releasedUnit: string; strike: string; mail: string; certificateMail: string; invitation: string; certificate: string; verifyCode: string; disposition: string; recorder: string };
 type Row = {
   method: "GET" | "POST" | "PUT" | "PATCH" | "DELETE";
   path: string;
@@ -77,6 +77,13 @@ export const MATRIX: Row[] = [
   { method: "GET", path: "/batches/:id/certificates", url: (i) => `/api/batches/${i.batch}/certificates`, expect: [401, 200, 200, 200, 404] },
   { method: "POST", path: "/batches/:id/certificates", url: (i) => `/api/batches/${i.batch}/certificates`, body: {}, expect: [401, 403, 400, 400, 404] },
   { method: "GET", path: "/search", url: () => "/api/search?q=F-00", expect: [401, 200, 200, 200, 200] },
+  { method: "GET", path: "/instruments", url: () => "/api/instruments", expect: [401, 200, 200, 200, 200] },
+  { method: "POST", path: "/instruments", url: () => "/api/instruments", body: {}, expect: [401, 403, 400, 400, 400] },
+  { method: "GET", path: "/instruments/:id", url: (i) => `/api/instruments/${i.recorder}`, expect: [401, 200, 200, 200, 404] },
+  // Multipart without a recording: the permitted roles get 400 (nothing stored).
+  { method: "POST", path: "/instruments/:id/calibrations", url: (i) => `/api/instruments/${i.recorder}/calibrations`, multipart: true, expect: [401, 403, 400, 400, 404] },
+  // The released batch's evaluations are final: the permitted roles get 409 (nothing appended).
+  { method: "POST", path: "/units/:id/evaluations", url: (i) => `/api/units/${i.releasedUnit}/evaluations`, expect: [401, 403, 409, 409, 404] },
 ];
 
 /** Every route the API routers declare, as "METHOD /path", with the guard mark of its first handler. */
@@ -139,6 +146,7 @@ beforeAll(async () => {
     certificate: cert.body.number,
     verifyCode: cert.body.verifyUrl.split("/").pop(),
     disposition: db.select().from(disposition).get()!.id,
+    recorder: db.select().from(instrument).where(eq(instrument.name, "Bench recorder A")).get()!.id,
   };
   for (const who of WHO) await t.as(who);
 });

@@ -248,7 +248,7 @@ describe("instrument tolerances", () => {
     try {
       const owner = await w.as("owner");
       const profile = (await owner.get("/api/workshop")).body.profile;
-      expect(profile).toMatchObject({ clockTolerancePpm: 50, thermometerToleranceC: 0.5 });
+      expect(profile).toMatchObject({ clockTolerancePpm: 50, thermometerToleranceC: 0.5, tempCoefficientTolerancePercent: 20 });
       const put = await owner.put("/api/workshop/profile").set("Origin", ORIGIN).send({ ...profile, clockTolerancePpm: 200 });
       expect(put.status, JSON.stringify(put.body)).toBe(200);
       expect((await owner.put("/api/workshop/profile").set("Origin", ORIGIN).send({ ...profile, clockTolerancePpm: -1 })).body.error.fields).toHaveProperty("clockTolerancePpm");
@@ -259,7 +259,7 @@ describe("instrument tolerances", () => {
       expect((await maker.post(`/api/units/${open.id}/strikes`).set("Origin", ORIGIN).attach("audio", Buffer.from(forkWav({ frequencyHz: 440, seed: 77 })), "tol.wav")).status).toBe(202);
       await w.runtime.queue.drained();
       const ev = (await maker.get(`/api/units/${open.id}`)).body.evaluation;
-      expect(ev.assumptions).toEqual({ clockHalfWidthPpm: 200, thermometerHalfWidthC: 0.5 });
+      expect(ev.assumptions).toEqual({ clockHalfWidthPpm: 200, thermometerHalfWidthC: 0.5, tempCoefficientRelativeHalfWidth: 0.2 });
       // U ≥ 2·f·(200 ppm)/√3 (GUM §4.3.7, rectangular; k = 2): the clock term alone.
       expect(ev.requirements[0].expandedUncertaintyHz).toBeGreaterThanOrEqual((2 * 440 * 200e-6) / Math.sqrt(3));
     } finally {

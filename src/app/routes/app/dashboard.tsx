@@ -36,6 +36,7 @@ export function DashboardRoute() {
         workshopId={id}
         batchHref={paths.app.batch.getHref}
         unitHref={paths.app.unit.getHref}
+        instrumentHref={paths.app.instrument.getHref}
         noBatchesAction={
           can(role, "batch", "create") ? (
             <ButtonLink to={paths.app.newBatch.getHref()} variant="primary">

@@ -21,6 +21,7 @@ function navFor(role: RoleName): NavItem[] {
   const items: NavItem[] = [{ to: paths.app.dashboard.getHref(), label: "Dashboard", end: true }];
   if (can(role, "batch", "read")) items.push({ to: paths.app.batches.getHref(), label: "Batches" });
   if (can(role, "spec", "read")) items.push({ to: paths.app.specifications.getHref(), label: "Specifications" });
+  if (can(role, "instrument", "read")) items.push({ to: paths.app.instruments.getHref(), label: "Instruments" });
   if (can(role, "member", "create")) items.push({ to: paths.app.members.getHref(), label: "Members" });
   if (can(role, "mail", "read-certificates")) items.push({ to: paths.app.outbox.getHref(), label: "Outbox" });
   if (can(role, "workshop", "update")) items.push({ to: paths.app.settings.getHref(), label: "Settings" });

@@ -9,25 +9,29 @@ import type { Support } from "@shared/schemas/spec";
 import { Alert } from "@/components/ui/alert";
 import { Button } from "@/components/ui/button";
 import { InputField } from "@/components/ui/field";
+import { InstrumentSelects, instrumentsToSend, type InstrumentOption } from "@/components/upload/instrument-select";
 import { SupportSelect } from "@/components/upload/support-select";
 import { UploadList, useUploadItems, type UploadItem } from "@/components/upload/upload-list";
 import { WavDropArea } from "@/components/upload/wav-drop-area";
 import { isApiError } from "@/lib/api-client";
+import { useInstrumentChoice } from "@/lib/instrument-choice";
 import { getNextUnit } from "../api/get-next-unit";
 import { useUploadBatchStrike, type BatchUploadAccepted } from "../api/upload-batch-strike";
 
 type Item = UploadItem & { accepted?: BatchUploadAccepted };
 
-export function BatchDropZone({ workshopId, batchId, unitHref, disabled }: { workshopId: string; batchId: string; unitHref: (id: string) => string; disabled?: boolean }) {
+export function BatchDropZone({ workshopId, batchId, unitHref, disabled, userId, instruments }: { workshopId: string; batchId: string; unitHref: (id: string) => string; disabled?: boolean; userId: string; instruments: InstrumentOption[] }) {
   const upload = useUploadBatchStrike(workshopId, batchId);
   const { items, patch, enqueue } = useUploadItems<Item>();
   const [temperature, setTemperature] = useState("");
   const [support, setSupport] = useState<Support | "">("");
+  const [choice, choose] = useInstrumentChoice(userId, workshopId);
   const busy = items.some((item) => item.state === "waiting" || item.state === "uploading");
 
   const start = async (files: File[]) => {
     if (files.length === 0) return;
-    const temperatureC = temperature.trim() === "" ? null : Number(temperature);
+    const parsed = temperature.trim() === "" ? null : Number(temperature);
+    const temperatureC = parsed !== null && Number.isFinite(parsed) ? parsed : null;
     const batch = enqueue(files);
     // One after the other: "next unmeasured unit" must see the previous file's unit as measured.
     for (let i = 0; i < files.length; i++) {
@@ -36,8 +40,9 @@ export function BatchDropZone({ workshopId, batchId, unitHref, disabled }: { wor
       try {
         const accepted = await upload.mutateAsync({
           file: files[i],
-          temperatureC: Number.isFinite(temperatureC) ? temperatureC : null,
+          temperatureC,
           support: support || null,
+          ...instrumentsToSend(instruments, choice, temperatureC),
           onProgress: ({ loaded, total }) => patch(key, { progress: total ? loaded / total : 0 }),
         });
         patch(key, { state: "accepted", progress: 1, accepted });
@@ -52,6 +57,7 @@ export function BatchDropZone({ workshopId, batchId, unitHref, disabled }: { wor
       <div className="grid gap-3 sm:grid-cols-2">
         <InputField label="Ambient temperature (°C, optional)" type="number" step="any" inputMode="decimal" value={temperature} onChange={(e) => setTemperature(e.target.value)} disabled={disabled} />
         <SupportSelect label="Support (optional)" value={support} onChange={setSupport} disabled={disabled} />
+        <InstrumentSelects instruments={instruments} value={choice} onChange={choose} disabled={disabled} temperatureGiven={temperature.trim() !== ""} />
       </div>
       <WavDropArea
         title="Drop the batch's WAV files here"

@@ -1,8 +1,9 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
 import type { BatchSummary } from "@shared/schemas/batch";
+import type { InstrumentDue } from "@shared/schemas/instrument";
 import { api } from "@/lib/api-client";
 
-export type Dashboard = { openBatches: BatchSummary[]; awaitingReview: number; released: number };
+export type Dashboard = { openBatches: BatchSummary[]; awaitingReview: number; released: number; instrumentsDue: InstrumentDue[] };
 
 export function getDashboard(): Promise<Dashboard> {
   return api.get<Dashboard>("/api/dashboard");

@@ -6,7 +6,7 @@ import { EmptyState, Panel } from "@/components/ui/panel";
 import { Spinner } from "@/components/ui/spinner";
 import { BatchStateBadge } from "@/components/ui/status-badges";
 import { VerdictBadge } from "@/components/ui/status-badges";
-import { formatCents } from "@/lib/format";
+import { formatCents, formatDate } from "@/lib/format";
 import { useDashboard } from "../api/get-dashboard";
 import { useReviewQueue } from "../api/get-review-queue";
 
@@ -14,17 +14,18 @@ type Props = {
   workshopId: string;
   batchHref: (id: string) => string;
   unitHref: (id: string) => string;
+  instrumentHref: (id: string) => string;
   /** What to do when there is no open batch (create one, or ask for one), chosen by role. */
   noBatchesAction: ReactNode;
   reviewNote: string;
 };
 
-export function DashboardOverview({ workshopId, batchHref, unitHref, noBatchesAction, reviewNote }: Props) {
+export function DashboardOverview({ workshopId, batchHref, unitHref, instrumentHref, noBatchesAction, reviewNote }: Props) {
   const dashboard = useDashboard(workshopId);
   const queue = useReviewQueue(workshopId, dashboard.data?.openBatches ?? []);
   if (dashboard.isPending) return <Spinner label="Loading the workshop's batches…" />;
   if (dashboard.isError) return <Alert tone="error">{dashboard.error.message}</Alert>;
-  const { openBatches, awaitingReview, released } = dashboard.data;
+  const { openBatches, awaitingReview, released, instrumentsDue } = dashboard.data;
 
   return (
     <div className="grid items-start gap-6 lg:grid-cols-[1fr_22rem]">
@@ -108,6 +109,26 @@ export function DashboardOverview({ workshopId, batchHref, unitHref, noBatchesAc
         ) : null}
         <p className="mt-3 text-caption text-ink-faint">{released} batch{released === 1 ? "" : "es"} released so far.</p>
       </Panel>
+      {instrumentsDue?.length ? (
+        <Panel aria-labelledby="due-heading" className="lg:col-start-2">
+          <h2 id="due-heading" className="text-title font-semibold">
+            Calibrations due
+          </h2>
+          <p className="text-caption text-ink-soft">Within 30 days, or overdue. Strikes measured with an expired instrument carry the assumed tolerance and cannot be certified as traceable.</p>
+          <ul aria-label="Instruments due for calibration" className="mt-3 divide-y divide-line">
+            {instrumentsDue.map((i) => (
+              <li key={i.id} className="flex flex-wrap items-center justify-between gap-x-3 gap-y-1 py-2 text-caption">
+                <Link to={instrumentHref(i.id)} className="font-semibold text-steel-700 underline underline-offset-2">
+                  {i.name}
+                </Link>
+                <span className={i.status === "expired" ? "font-semibold text-rust-700" : "text-ochre-600"}>
+                  {i.dueInDays !== null && i.dueInDays < 0 ? `overdue since ${formatDate(i.validUntil!)}` : `due ${formatDate(i.validUntil!)} (${i.dueInDays} day${i.dueInDays === 1 ? "" : "s"})`}
+                </span>
+              </li>
+            ))}
+          </ul>
+        </Panel>
+      ) : null}
     </div>
   );
 }

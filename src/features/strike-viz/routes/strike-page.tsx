@@ -22,6 +22,7 @@ import { useUnit } from "../api/get-unit";
 import { DecayChart } from "../components/decay-chart";
 import { PartialsTable } from "../components/partials-table";
 import { SpectrumChart } from "../components/spectrum-chart";
+import { StrikeCorrection } from "../components/strike-correction";
 import { WarningsList } from "../components/warnings-list";
 import { Waveform } from "../components/waveform";
 import { fixed, formatHz } from "../lib/format";
@@ -104,6 +105,11 @@ function StrikeView({ workshopId, strike }: { workshopId: string; strike: Strike
         <Fact label="Format" value={strike.bitsPerSample ? `${strike.bitsPerSample}-bit ${strike.encoding ?? ""}, ${strike.channels ?? "?"} ch` : "–"} />
         <Fact label="Support · temperature" value={`${strike.support ? supportLabels[strike.support] : "support not given"} · ${strike.temperatureC !== null ? `${strike.temperatureC} °C` : "no temperature"}`} />
       </dl>
+
+      <Panel aria-labelledby="correction-heading">
+        <h2 id="correction-heading" className="mb-3 text-title font-semibold">Instruments and correction</h2>
+        <StrikeCorrection strike={strike} />
+      </Panel>
 
       {busy ? (
         <Alert tone="info" title={strike.state === "queued" ? "Waiting for analysis" : "Analysing…"}>

@@ -60,9 +60,11 @@ export function EvaluationPanel({ evaluation, pending }: { evaluation: Evaluatio
       </div>
       <p className="text-caption text-ink-faint">
         U is the expanded uncertainty with coverage factor k = 2 (about 95 %): the fit, the scatter between strikes
-        {evaluation.assumptions
-          ? `, the recording clock (± ${evaluation.assumptions.clockHalfWidthPpm} ppm) and the thermometer (± ${evaluation.assumptions.thermometerHalfWidthC ?? 0.5} °C, when a temperature was given)`
-          : ""}
+        {evaluation.traceability
+          ? ", the recording clock and the thermometer — from their calibrations where they had one, else the assumed tolerances (see below)"
+          : evaluation.assumptions
+            ? `, the recording clock (± ${evaluation.assumptions.clockHalfWidthPpm} ppm) and the thermometer (± ${evaluation.assumptions.thermometerHalfWidthC ?? 0.5} °C, when a temperature was given)`
+            : ""}
         . Deviations are 1200·log₂(measured / target) cents.
       </p>
     </div>

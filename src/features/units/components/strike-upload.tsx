@@ -5,28 +5,34 @@
 import { useRef, useState, type ReactNode } from "react";
 import type { Support } from "@shared/schemas/spec";
 import { InputField } from "@/components/ui/field";
+import { InstrumentSelects, instrumentsToSend, type InstrumentOption } from "@/components/upload/instrument-select";
 import { SupportSelect } from "@/components/upload/support-select";
 import { UploadList, useUploadItems } from "@/components/upload/upload-list";
 import { WavDropArea } from "@/components/upload/wav-drop-area";
 import { isApiError } from "@/lib/api-client";
 import { formatBytes } from "@/lib/format";
+import { useInstrumentChoice } from "@/lib/instrument-choice";
 import { useUploadStrike } from "../api/upload-strike";
 
 type Props = {
   workshopId: string;
   unitId: string;
+  /** The signed-in person (the instrument choice is remembered per person) and the workshop's instruments. */
+  userId: string;
+  instruments: InstrumentOption[];
   disabled?: boolean;
   disabledReason?: string;
   /** A slot for recording in the browser; the File it gives goes through the same upload. */
   recorder?: (addFile: (file: File) => void, disabled: boolean) => ReactNode;
 };
 
-export function StrikeUpload({ workshopId, unitId, disabled = false, disabledReason, recorder }: Props) {
+export function StrikeUpload({ workshopId, unitId, userId, instruments, disabled = false, disabledReason, recorder }: Props) {
   const upload = useUploadStrike(workshopId, unitId);
   const { items, patch, enqueue } = useUploadItems();
   const [temperature, setTemperature] = useState("");
   const [temperatureError, setTemperatureError] = useState<string | null>(null);
   const [support, setSupport] = useState<Support | "">("");
+  const [choice, choose] = useInstrumentChoice(userId, workshopId);
   const queue = useRef<Promise<void>>(Promise.resolve());
 
   const add = (files: File[]) => {
@@ -49,6 +55,7 @@ export function StrikeUpload({ workshopId, unitId, disabled = false, disabledRea
             file: files[i],
             temperatureC,
             support: support || null,
+            ...instrumentsToSend(instruments, choice, temperatureC),
             onProgress: ({ loaded, total }) => patch(item.key, { progress: total ? loaded / total : 0 }),
           });
           patch(item.key, { state: "accepted", progress: 1 });
@@ -75,6 +82,7 @@ export function StrikeUpload({ workshopId, unitId, disabled = false, disabledRea
           onChange={(e) => setTemperature(e.target.value)}
         />
         <SupportSelect label="Support condition (optional)" value={support} onChange={setSupport} disabled={disabled} />
+        <InstrumentSelects instruments={instruments} value={choice} onChange={choose} disabled={disabled} temperatureGiven={temperature.trim() !== ""} />
       </div>
       <WavDropArea title="Drop WAV recordings of this unit here" hint="One strike or several per file; up to 100 MB each." inputLabel="WAV recordings for this unit" disabled={disabled} onFiles={add}>
         {recorder ? <div className="w-full max-w-xl text-left">{recorder((file) => add([file]), disabled)}</div> : null}

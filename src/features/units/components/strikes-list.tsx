@@ -43,6 +43,7 @@ export function StrikesList({ unit, strikeHref, workshopId, canVoid }: Props) {
                   {strike.uploadedBy ? ` · ${strike.uploadedBy.name}` : ""}
                   {strike.temperatureC != null ? ` · ${strike.temperatureC} °C` : ""}
                   {strike.support ? ` · ${supportLabels[strike.support]}` : ""}
+                  {strike.recorder ? ` · ${strike.recorder.name}` : ""}
                   {strike.durationS != null ? ` · ${strike.durationS.toFixed(1)} s` : ""}
                 </p>
                 {strike.voided ? (

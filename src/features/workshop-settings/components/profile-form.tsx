@@ -10,7 +10,7 @@ import { applyServerErrors } from "@/lib/form-errors";
 import { profileGaps, type WorkshopProfile } from "../api/get-workshop";
 import { useUpdateProfile } from "../api/update-profile";
 
-const fields = ["address", "sendingEmail", "qualityEmail", "certificatePrefix", "clockTolerancePpm", "thermometerToleranceC"] as const;
+const fields = ["address", "sendingEmail", "qualityEmail", "certificatePrefix", "clockTolerancePpm", "thermometerToleranceC", "tempCoefficientTolerancePercent"] as const;
 
 export function ProfileForm({ workshopId, profile }: { workshopId: string; profile: WorkshopProfile }) {
   const update = useUpdateProfile(workshopId);
@@ -44,7 +44,8 @@ export function ProfileForm({ workshopId, profile }: { workshopId: string; profi
         <InputField label="Certificate prefix" hint="Starts every certificate number, e.g. BTW-2026-0001." error={errors.certificatePrefix?.message} {...form.register("certificatePrefix")} />
       </div>
       <fieldset className="grid gap-4 sm:grid-cols-2">
-        <legend className="mb-2 text-body font-semibold">Instrument tolerances</legend>
+        <legend className="mb-2 text-body font-semibold">Assumed tolerances</legend>
+        <p className="text-caption text-ink-soft sm:col-span-2">Used for a recorder or thermometer that has no valid calibration (see Instruments); a calibrated instrument brings its own uncertainty instead.</p>
         <InputField
           label="Recording clock tolerance (± ppm)"
           type="number"
@@ -63,7 +64,16 @@ export function ProfileForm({ workshopId, profile }: { workshopId: string; profi
           error={errors.thermometerToleranceC?.message}
           {...form.register("thermometerToleranceC", { valueAsNumber: true })}
         />
-        <p className="text-caption text-ink-faint sm:col-span-2">Both are taken as rectangular (GUM §4.3.7) and apply to evaluations made after saving; earlier ones keep the values they were made with.</p>
+        <InputField
+          label="Temperature coefficient known to (± %)"
+          type="number"
+          step="any"
+          inputMode="decimal"
+          hint="How well the specifications' temperature coefficients fit your parts. 20 % is a typical starting value for a handbook figure — measure your own parts at two temperatures to know it better."
+          error={errors.tempCoefficientTolerancePercent?.message}
+          {...form.register("tempCoefficientTolerancePercent", { valueAsNumber: true })}
+        />
+        <p className="text-caption text-ink-faint sm:col-span-2">All are taken as rectangular (GUM §4.3.7) and apply to evaluations made after saving; earlier ones keep the values they were made with.</p>
       </fieldset>
       <div>
         <Button type="submit" pending={isSubmitting}>

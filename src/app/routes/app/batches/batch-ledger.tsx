@@ -14,6 +14,7 @@ import { BatchStateBadge } from "@/components/ui/status-badges";
 import { paths } from "@/config/paths";
 import { BatchCharts } from "@/features/batch-charts/components/batch-charts";
 import { BatchCertificatesPanel } from "@/features/certificates/components/batch-certificates-panel";
+import { getInstrumentsQueryOptions, useInstruments } from "@/features/instruments/api/get-instruments";
 import { getBatchQueryOptions, useBatch } from "@/features/batches/api/get-batch";
 import { AddUnitsForm } from "@/features/batches/components/add-units-form";
 import { BatchActions } from "@/features/batches/components/batch-actions";
@@ -29,6 +30,8 @@ export const batchLedgerLoader = (queryClient: QueryClient) => async ({ request,
   const me = await requireWorkshop(queryClient, request);
   assertCan(me, "batch", "read", "reading batches");
   await queryClient.ensureQueryData(getBatchQueryOptions(me.activeWorkshop.id, params.batchId ?? ""));
+  // The upload's instrument choice needs the list at once (a remembered recorder is shown as chosen).
+  if (can(me.activeWorkshop.role, "instrument", "read")) await queryClient.ensureQueryData(getInstrumentsQueryOptions(me.activeWorkshop.id));
   return null;
 };
 
@@ -37,6 +40,7 @@ export function BatchLedgerRoute() {
   const { batchId = "" } = useParams();
   const { id: workshopId, role } = me.activeWorkshop;
   const batch = useBatch(workshopId, batchId);
+  const instruments = useInstruments(workshopId, can(role, "instrument", "read"));
   if (batch.isPending) return <Spinner label="Loading the ledger…" />;
   if (batch.isError) throw batch.error;
   const b = batch.data;
@@ -94,7 +98,7 @@ export function BatchLedgerRoute() {
               </div>
               <MeasureNextUnitButton batchId={b.id} unitHref={paths.app.unit.getHref} />
             </div>
-            <BatchDropZone workshopId={workshopId} batchId={b.id} unitHref={paths.app.unit.getHref} />
+            <BatchDropZone workshopId={workshopId} batchId={b.id} unitHref={paths.app.unit.getHref} userId={me.user.id} instruments={instruments.data ?? []} />
           </Panel>
         ) : null}
 

@@ -14,9 +14,11 @@ import { VerdictBadge } from "@/components/ui/status-badges";
 import { paths } from "@/config/paths";
 import { CertificatesPanel } from "@/features/certificates/components/certificates-panel";
 import { CompareStrikes } from "@/features/compare-strikes/components/compare-strikes";
+import { getInstrumentsQueryOptions, useInstruments } from "@/features/instruments/api/get-instruments";
 import { StrikeRecorder } from "@/features/recorder/components/strike-recorder";
 import { getUnitQueryOptions, useUnit } from "@/features/units/api/get-unit";
 import { DispositionsPanel } from "@/features/units/components/dispositions-panel";
+import { EvaluationInstruments } from "@/features/units/components/evaluation-instruments";
 import { EvaluationPanel } from "@/features/units/components/evaluation-view";
 import { StrikeUpload } from "@/features/units/components/strike-upload";
 import { StrikesList } from "@/features/units/components/strikes-list";
@@ -31,6 +33,8 @@ export const unitLoader = (queryClient: QueryClient) => async ({ request, params
   const me = await requireWorkshop(queryClient, request);
   assertCan(me, "unit", "read", "reading units");
   await queryClient.ensureQueryData(getUnitQueryOptions(me.activeWorkshop.id, params.unitId ?? ""));
+  // The upload's instrument choice needs the list at once (a remembered recorder is shown as chosen).
+  if (can(me.activeWorkshop.role, "instrument", "read")) await queryClient.ensureQueryData(getInstrumentsQueryOptions(me.activeWorkshop.id));
   return null;
 };
 
@@ -39,6 +43,7 @@ export function UnitRoute() {
   const { unitId = "" } = useParams();
   const { id: workshopId, role } = me.activeWorkshop;
   const unit = useUnit(workshopId, unitId);
+  const instruments = useInstruments(workshopId, can(role, "instrument", "read"));
   if (unit.isPending) return <Spinner label="Loading the unit…" />;
   if (unit.isError) throw unit.error;
   const u = unit.data;
@@ -103,6 +108,8 @@ export function UnitRoute() {
             <StrikeUpload
               workshopId={workshopId}
               unitId={u.id}
+              userId={me.user.id}
+              instruments={instruments.data ?? []}
               recorder={(addFile, disabled) => <StrikeRecorder onRecorded={addFile} disabled={disabled} />}
             />
           </Panel>
@@ -123,6 +130,11 @@ export function UnitRoute() {
             Evaluation
           </h2>
           <EvaluationPanel evaluation={evaluation} pending={pending} />
+          {evaluation ? (
+            <div className="mt-4">
+              <EvaluationInstruments workshopId={workshopId} unitId={u.id} evaluation={evaluation} strikes={u.strikes} canReevaluate={can(role, "evaluation", "create") && !released && !pending} />
+            </div>
+          ) : null}
         </Panel>
 
         {evaluation?.guidance && evaluation.verdict !== "within_tolerance" ? (
