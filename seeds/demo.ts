@@ -14,6 +14,7 @@ import { insertStrike } from "../server/services/strikes.ts";
 import type { RoleName } from "../shared/permissions.ts";
 import { specInputSchema } from "../shared/schemas/spec.ts";
 import { specTemplate } from "../shared/spec-templates.ts";
+import { seedDemoBothWaysStrikes, seedDemoModeLists } from "./demo-modes.ts";
 import { prng, synthStrikeWav } from "./synth.ts";
 
 export const DEMO_PASSWORD = "tinelog-demo";
@@ -98,6 +99,7 @@ function seedDemoLedger(deps: AppDeps, ids: DemoIds, opts: { strikes: boolean })
   );
   const measured = createBatch(db, maker, { code: "BTW-2611", specId: spec.id, quantity: 10, range: { from: "F-0001", to: "F-0010" }, notes: "November run, steel bar stock lot 7 (demo)." });
   createBatch(db, maker, { code: "BTW-2612", specId: spec.id, quantity: 6, range: { from: "F-0011", to: "F-0016" }, notes: "December run (demo): strike each fork and upload." });
+  seedDemoModeLists(deps, qa, { id: spec.id, versionId: spec.currentVersionId });
   if (!opts.strikes) return;
 
   // Deviations in cents of the demo forks (invented): two out of ±5 cents, the rest within.
@@ -130,5 +132,6 @@ function seedDemoLedger(deps: AppDeps, ids: DemoIds, opts: { strikes: boolean })
       support: "hand",
     });
   });
+  seedDemoBothWaysStrikes(deps, maker, measured.id);
   deps.queue.notify();
 }

@@ -20,6 +20,7 @@ import { sameOriginJson } from "./middleware/origin.ts";
 import { batchRoutes } from "./routes/batches.ts";
 import { certificateRoutes } from "./routes/certificates.ts";
 import { mailRoutes } from "./routes/mail.ts";
+import { modeRoutes } from "./routes/modes.ts";
 import { sessionRoutes } from "./routes/session.ts";
 import { specRoutes } from "./routes/specs.ts";
 import { strikeRoutes } from "./routes/strikes.ts";
@@ -46,7 +47,7 @@ const clientDir = fileURLToPath(new URL("../dist/client", import.meta.url));
 
 /** The feature routers, in one list: the authorization matrix test walks them. */
 export function apiRouters(deps: AppDeps) {
-  return [sessionRoutes(deps), workshopRoutes(deps), mailRoutes(deps), specRoutes(deps), batchRoutes(deps), strikeRoutes(deps), certificateRoutes(deps)];
+  return [sessionRoutes(deps), workshopRoutes(deps), mailRoutes(deps), specRoutes(deps), modeRoutes(deps), batchRoutes(deps), strikeRoutes(deps), certificateRoutes(deps)];
 }
 
 export function createApp(deps: AppDeps) {

@@ -69,6 +69,41 @@ export const modeListJsonSchema = modeListMetaSchema.extend({
 });
 export type ModeListJson = z.input<typeof modeListJsonSchema>;
 
+const blankToUndefined = (v: unknown) => (typeof v === "string" && v.trim() === "" ? undefined : v);
+
+/**
+ * The multipart fields beside the `modes` file (strings on the wire). `mapping` is the column
+ * mapping chosen in the preview, as JSON: `{ "mode": "Mode No.", "frequencyHz": "Freq (kHz)",
+ * "label": null, "kind": null, "condition": null, "frequencyUnit": "kHz" }`.
+ */
+export const modeListFieldsSchema = z.object({
+  name: z.preprocess(blankToUndefined, z.string().trim().max(120, "At most 120 characters").optional()),
+  condition: z.preprocess(blankToUndefined, z.enum(modelConditions, { error: "Choose free or held" }).optional()),
+  youngsModulusGPa: z.preprocess(blankToUndefined, z.coerce.number({ error: "Young's modulus must be a number in GPa" }).min(1, "Young's modulus must be at least 1 GPa").max(1500, "Young's modulus must be at most 1500 GPa").optional()),
+  densityKgM3: z.preprocess(blankToUndefined, z.coerce.number({ error: "Density must be a number in kg/m³" }).min(100, "Density must be at least 100 kg/m³").max(30000, "Density must be at most 30000 kg/m³").optional()),
+  mapping: z.preprocess(
+    (v) => {
+      if (typeof v !== "string" || !v.trim()) return undefined;
+      try {
+        return JSON.parse(v);
+      } catch {
+        return "not json";
+      }
+    },
+    z
+      .object({
+        mode: z.string().max(200).nullable().optional(),
+        frequencyHz: z.string().max(200).nullable().optional(),
+        label: z.string().max(200).nullable().optional(),
+        kind: z.string().max(200).nullable().optional(),
+        condition: z.string().max(200).nullable().optional(),
+        frequencyUnit: z.enum(["Hz", "kHz", "rad/s"], { error: "frequencyUnit must be Hz, kHz or rad/s" }).optional(),
+      }, { error: "mapping must be a JSON object naming the columns" })
+      .optional(),
+  ),
+});
+export type ModeListFields = z.infer<typeof modeListFieldsSchema>;
+
 /** A predicted mode as stored: kind is null when the model did not say. */
 export type PredictedMode = { mode: number; frequencyHz: number; label: string; kind: ModeKind | null };
 
