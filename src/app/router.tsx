@@ -16,6 +16,7 @@ import { DashboardRoute, dashboardLoader } from "./routes/app/dashboard";
 import { SettingsRoute, settingsLoader } from "./routes/app/settings";
 import { SpecDetailRoute, specDetailLoader } from "./routes/app/specs/spec-detail";
 import { SpecEditRoute, specEditLoader } from "./routes/app/specs/spec-edit";
+import { SpecModesRoute, specModesLoader } from "./routes/app/specs/spec-modes";
 import { SpecNewRoute, specNewLoader } from "./routes/app/specs/spec-new";
 import { SpecsListRoute, specsListLoader } from "./routes/app/specs/specs-list";
 import { StrikeRoute, strikeLoader } from "./routes/app/strike";
@@ -81,6 +82,7 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
                 { path: paths.app.newSpecification.path, loader: specNewLoader(queryClient), element: <SpecNewRoute /> },
                 { path: paths.app.specification.path, loader: specDetailLoader(queryClient), element: <SpecDetailRoute /> },
                 { path: paths.app.editSpecification.path, loader: specEditLoader(queryClient), element: <SpecEditRoute /> },
+                { path: paths.app.specificationModes.path, loader: specModesLoader(queryClient), element: <SpecModesRoute /> },
                 { path: paths.app.settings.path, loader: settingsLoader(queryClient), element: <SettingsRoute /> },
                 { path: paths.app.members.path, loader: membersLoader(queryClient), element: <MembersRoute /> },
                 { path: paths.app.outbox.path, loader: outboxLoader(queryClient), element: <OutboxRoute /> },
