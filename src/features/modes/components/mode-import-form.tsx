@@ -23,6 +23,8 @@ export function ModeImportForm({ workshopId, specId, versionId, version }: { wor
   const [modulus, setModulus] = useState("");
   const [density, setDensity] = useState("");
   const [done, setDone] = useState<string | null>(null);
+  // A new key clears the file input after an import (its value cannot be set from script).
+  const [inputKey, setInputKey] = useState(0);
   const importer = useImportPredictedModes(workshopId, specId, versionId);
 
   const preview: ModeImport | null = table && mapping ? modesFromTable(table, mapping) : null;
@@ -60,6 +62,10 @@ export function ModeImportForm({ workshopId, specId, versionId, version }: { wor
           setFile(null);
           setTable(null);
           setMapping(null);
+          setName("");
+          setModulus("");
+          setDensity("");
+          setInputKey((k) => k + 1);
         },
       },
     );
@@ -79,6 +85,7 @@ export function ModeImportForm({ workshopId, specId, versionId, version }: { wor
           Mode list file
         </label>
         <input
+          key={inputKey}
           id="mode-file"
           type="file"
           accept=".csv,.txt,.tsv,.json,.dat,text/csv,text/plain,application/json"

@@ -25,6 +25,7 @@ export function stiffnessSentence(map: ModeMap): string {
   if (k === null || uK === null) {
     if (map.geometry && map.youngsModulusSource === "geometry") return geometrySentence(map);
     if (!map.models.length) return "No model yet: import the predicted modes of this design to see which partial is which mode and what stiffness the parts really have.";
+    if (!map.measuredModes.length) return "No measurements yet: strike units of this specification (suspended, if you can) and the partials found are matched to the model's modes here.";
     return "No stiffness factor yet: no measured partial lies within reach of the model's modes. Strike a few units of this specification (suspended, if you can), or check that the model is of this part.";
   }
   const shift = `Every frequency sits ${Math.abs((k - 1) * 100).toFixed(1)} % (${formatCents(centsOf(k))}) ${k >= 1 ? "above" : "below"} the model's`;
