@@ -9,8 +9,9 @@
  * stay unmatched. With s fixed, the best assignment of two sorted lists under a convex cost of the
  * difference never crosses, so dynamic programming over the sorted lists finds it (the same optimum
  * as the Hungarian method with "unmatched" columns; the tests compare the two). s is then the mean
- * of the matched log-ratios (the least-squares solution), and the two steps alternate from every
- * plausible starting shift; the lowest total cost wins.
+ * of the matched log-ratios (the least-squares solution), and the two steps alternate from the most
+ * plausible starting shifts (those that bring the most modes near a partial); the lowest total
+ * cost wins.
  *
  * A matched mode whose residual stays far from the others' after calibration is left out of the fit
  * (it points at geometry — a tine length, a thickness — not at the material) and reported with its
@@ -70,6 +71,9 @@ export type MatchResult = {
   pairs: MatchedPair[][];
   fit: StiffnessFit | null;
 };
+
+/** How many of the best-voted starting shifts are refined by alternating assignment and fit. */
+const MAX_REFINED_STARTS = 32;
 
 type Item = { key: string; ln: number; hz: number; u: number };
 
@@ -182,19 +186,49 @@ export function matchModes(sets: MatchSet[], opts: MatchOptions = defaultMatchOp
   const gate = opts.gateCents / CENTS_PER_NEPER;
   const maxShift = Math.log(opts.maxScale);
   // Starting shifts: every pairing of a predicted mode with a measured partial within the scale
-  // range, on a 1-cent grid, and no shift at all.
-  const starts = new Set<number>([0]);
+  // range, on a 1-cent grid, and no shift at all. Each is scored by a quick vote (every predicted
+  // mode's best partial within the gate, one-to-one ignored); the best-scored starts are refined.
+  const grid = new Set<number>([0]);
   for (const { p, m } of prepared) {
     for (const a of p) for (const b of m) {
       const s = b.ln - a.ln;
-      if (Math.abs(s) <= maxShift) starts.add(Math.round(s * CENTS_PER_NEPER) / CENTS_PER_NEPER);
+      if (Math.abs(s) <= maxShift) grid.add(Math.round(s * CENTS_PER_NEPER) / CENTS_PER_NEPER);
     }
   }
+  const g2 = gate * gate;
+  const vote = (s: number) => {
+    let score = 0;
+    for (const { p, m } of prepared) {
+      for (const a of p) {
+        // m is sorted: only the partials within the gate of a·k count.
+        let lo = 0;
+        let hi = m.length;
+        const from = a.ln + s - gate;
+        while (lo < hi) {
+          const mid = (lo + hi) >> 1;
+          if (m[mid].ln < from) lo = mid + 1;
+          else hi = mid;
+        }
+        let bestPair = 0;
+        for (let j = lo; j < m.length && m[j].ln <= a.ln + s + gate; j++) {
+          const r = m[j].ln - s - a.ln;
+          bestPair = Math.max(bestPair, g2 - r * r);
+        }
+        score += bestPair;
+      }
+    }
+    return score;
+  };
+  const starts = [...grid]
+    .map((s) => ({ s, score: vote(s) }))
+    .sort((a, b) => b.score - a.score || Math.abs(a.s) - Math.abs(b.s))
+    .slice(0, MAX_REFINED_STARTS)
+    .map((x) => x.s);
   let best: Solution | null = null;
-  for (const s0 of [...starts].sort((a, b) => Math.abs(a) - Math.abs(b) || a - b)) {
+  for (const s0 of starts) {
     const sol = solveFrom(prepared, s0, gate, opts);
     if (Math.abs(sol.s) > maxShift) continue;
-    if (!best || sol.cost < best.cost - 1e-12) best = sol;
+    if (!best || sol.cost < best.cost - 1e-12 || (Math.abs(sol.cost - best.cost) <= 1e-12 && Math.abs(sol.s) < Math.abs(best.s))) best = sol;
   }
   if (!best || best.pairs.every((p) => p.length === 0)) return { pairs: sets.map(() => []), fit: null };
   const s = best.s;

@@ -9,8 +9,8 @@ import type uPlot from "uplot";
 import type { ModeMap } from "@shared/schemas/modes";
 import { UplotChart, type ChartOptions } from "@/components/charts/uplot-chart";
 import { formatCents } from "@/lib/format";
-import { frequencyTicks } from "@/lib/ticks";
 import { useWidth } from "@/lib/use-width";
+import { hzLabel, logAxis } from "../lib/axes";
 import { modeColours, residualColour } from "../lib/colours";
 import { drawShape, KeyItem } from "./marker-shapes";
 
@@ -24,7 +24,6 @@ function lanesOf(map: ModeMap, narrow: boolean): Lane[] {
   return keys.map((key, i) => ({ key, y: keys.length - i, label: label[key] }));
 }
 
-const hzLabel = (v: number) => (v >= 1000 ? `${+(v / 1000).toFixed(2)}k` : `${+v.toFixed(v < 10 ? 1 : 0)}`);
 
 export function ModeFrequencyChart({ map }: { map: ModeMap }) {
   const [ref, width] = useWidth<HTMLElement>({ initial: 720 });
@@ -107,15 +106,7 @@ export function ModeFrequencyChart({ map }: { map: ModeMap }) {
         y: { range: () => [0.35, lanes.length + 0.65] },
       },
       axes: [
-        {
-          label: narrow ? "Frequency (Hz, log)" : "Frequency (Hz, logarithmic)",
-          splits: (_u, _i, min, max) => frequencyTicks(min, max, true),
-          filter: (_u, splits) => splits,
-          values: (_u, vals) => vals.map((v) => (v == null ? "" : hzLabel(v))),
-          stroke: modeColours.axis,
-          grid: { stroke: modeColours.grid },
-          ticks: { stroke: modeColours.grid },
-        },
+        logAxis(narrow ? "Frequency (Hz, log)" : "Frequency (Hz, logarithmic)", hzLabel),
         {
           splits: () => lanes.map((l) => l.y),
           values: (_u, vals) => vals.map((v) => lanes.find((l) => l.y === v)?.label ?? ""),

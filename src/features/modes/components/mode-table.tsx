@@ -26,17 +26,37 @@ function HoldCell({ row }: { row: Pick<ModeMapRow, "holdEffect"> }) {
   );
 }
 
+function TauAndHoldCells({ of, stand }: { of: Pick<ModeMapRow, "tauBySupport" | "holdEffect">; stand: boolean }) {
+  const cell = "whitespace-nowrap px-2 py-2 text-right tabular-nums";
+  return (
+    <>
+      <td className={cell}>{tau(of.tauBySupport.suspended)}</td>
+      <td className={cell}>{tau(of.tauBySupport.hand)}</td>
+      {stand ? <td className={cell}>{tau(of.tauBySupport.stand)}</td> : null}
+      <td className="px-2 py-2">
+        <HoldCell row={of} />
+      </td>
+    </>
+  );
+}
+
+function SectionTitle({ title, span }: { title: string; span: number }) {
+  return (
+    <tr>
+      <th colSpan={span} scope="colgroup" className="bg-sunken px-2 py-2 text-left text-caption font-semibold text-ink">
+        {title}
+      </th>
+    </tr>
+  );
+}
+
 function ModelRows({ rows, title, stand }: { rows: ModeMapRow[]; title: string; stand: boolean }) {
   const span = stand ? 10 : 9;
   const rigid = rows.filter((r) => r.kind === "rigid_body");
   const others = rows.filter((r) => r.kind !== "rigid_body");
   return (
     <tbody>
-      <tr>
-        <th colSpan={span} scope="colgroup" className="bg-sunken px-2 py-2 text-left text-caption font-semibold text-ink">
-          {title}
-        </th>
-      </tr>
+      <SectionTitle title={title} span={span} />
       {rigid.length ? (
         <tr className="border-t border-line text-ink-faint">
           <td className="px-2 py-2 tabular-nums">
@@ -62,12 +82,7 @@ function ModelRows({ rows, title, stand }: { rows: ModeMapRow[]; title: string; 
             {formatCents(r.residualCents)}
             {r.inFit === false && r.kind !== "support" ? <span className="block text-caption font-normal">not in the fit</span> : null}
           </td>
-          <td className="whitespace-nowrap px-2 py-2 text-right tabular-nums">{tau(r.tauBySupport.suspended)}</td>
-          <td className="whitespace-nowrap px-2 py-2 text-right tabular-nums">{tau(r.tauBySupport.hand)}</td>
-          {stand ? <td className="whitespace-nowrap px-2 py-2 text-right tabular-nums">{tau(r.tauBySupport.stand)}</td> : null}
-          <td className="px-2 py-2">
-            <HoldCell row={r} />
-          </td>
+          <TauAndHoldCells of={r} stand={stand} />
         </tr>
       ))}
     </tbody>
@@ -78,11 +93,7 @@ function MeasuredRows({ modes, title, stand }: { modes: MeasuredModeView[]; titl
   const span = stand ? 10 : 9;
   return (
     <tbody>
-      <tr>
-        <th colSpan={span} scope="colgroup" className="bg-sunken px-2 py-2 text-left text-caption font-semibold text-ink">
-          {title}
-        </th>
-      </tr>
+      <SectionTitle title={title} span={span} />
       {modes.map((m) => (
         <tr key={m.id} className="border-t border-line align-top" data-measured={m.id}>
           <td className="min-w-44 px-2 py-2 text-caption">{m.supportMode ? "Found only when held" : "—"}</td>
@@ -91,12 +102,7 @@ function MeasuredRows({ modes, title, stand }: { modes: MeasuredModeView[]; titl
           <td className="whitespace-nowrap px-2 py-2 text-right tabular-nums">{m.units}</td>
           <td className="px-2 py-2 text-right text-ink-faint">—</td>
           <td className="px-2 py-2 text-right text-ink-faint">—</td>
-          <td className="whitespace-nowrap px-2 py-2 text-right tabular-nums">{tau(m.tauBySupport.suspended)}</td>
-          <td className="whitespace-nowrap px-2 py-2 text-right tabular-nums">{tau(m.tauBySupport.hand)}</td>
-          {stand ? <td className="whitespace-nowrap px-2 py-2 text-right tabular-nums">{tau(m.tauBySupport.stand)}</td> : null}
-          <td className="px-2 py-2">
-            <HoldCell row={m} />
-          </td>
+          <TauAndHoldCells of={m} stand={stand} />
         </tr>
       ))}
     </tbody>

@@ -7,8 +7,8 @@ import { useMemo } from "react";
 import type uPlot from "uplot";
 import type { ModeMap } from "@shared/schemas/modes";
 import { UplotChart, type ChartOptions } from "@/components/charts/uplot-chart";
-import { frequencyTicks } from "@/lib/ticks";
 import { useWidth } from "@/lib/use-width";
+import { hzLabel, logAxis, secondsLabel } from "../lib/axes";
 import { modeColours } from "../lib/colours";
 import { measuredModeNames } from "../lib/words";
 import { drawShape, KeyItem, type Shape } from "./marker-shapes";
@@ -19,8 +19,6 @@ const SUPPORTS = [
   { key: "stand", label: "on a stand", shape: "square", colour: modeColours.stand },
 ] as const satisfies readonly { key: "suspended" | "hand" | "stand"; label: string; shape: Shape; colour: string }[];
 
-const hzLabel = (v: number) => (v >= 1000 ? `${+(v / 1000).toFixed(2)}k` : `${+v.toFixed(v < 10 ? 1 : 0)}`);
-const sLabel = (v: number) => (v >= 1 ? `${+v.toFixed(1)}` : `${+v.toPrecision(1)}`);
 
 export function ModeTauChart({ map }: { map: ModeMap }) {
   const [ref, width] = useWidth<HTMLElement>({ initial: 720 });
@@ -76,25 +74,8 @@ export function ModeTauChart({ map }: { map: ModeMap }) {
         y: { distr: 3, log: 10, range: () => [bounds.tLo, bounds.tHi] },
       },
       axes: [
-        {
-          label: narrow ? "Frequency (Hz, log)" : "Frequency of the mode (Hz, logarithmic)",
-          splits: (_u, _i, min, max) => frequencyTicks(min, max, true),
-          filter: (_u, splits) => splits,
-          values: (_u, vals) => vals.map((v) => (v == null ? "" : hzLabel(v))),
-          stroke: modeColours.axis,
-          grid: { stroke: modeColours.grid },
-          ticks: { stroke: modeColours.grid },
-        },
-        {
-          label: narrow ? "τ (s, log)" : "τ (s, logarithmic)",
-          splits: (_u, _i, min, max) => frequencyTicks(min, max, true),
-          filter: (_u, splits) => splits,
-          values: (_u, vals) => vals.map((v) => (v == null ? "" : sLabel(v))),
-          stroke: modeColours.axis,
-          grid: { stroke: modeColours.grid },
-          ticks: { stroke: modeColours.grid },
-          size: 52,
-        },
+        logAxis(narrow ? "Frequency (Hz, log)" : "Frequency of the mode (Hz, logarithmic)", hzLabel),
+        logAxis(narrow ? "τ (s, log)" : "τ (s, logarithmic)", secondsLabel, { size: 52 }),
       ],
       series: [{}, { label: "frame", stroke: "transparent", points: { show: false } }],
       legend: { show: false },
