@@ -108,7 +108,7 @@ export function GeometryForm({ params, family, lengthMm, onApply }: { params: Mo
       <p className="max-w-prose text-caption text-ink-soft">
         Without a model, the measured fundamental gives the modulus through a slender-beam formula: a fork tine as a cantilever from the crotch, a bar as a free–free beam. Measure the part itself; the density and the reading uncertainties below are typical starting values — confirm them with your own parts.
       </p>
-      <div className="grid gap-3 sm:grid-cols-3">
+      <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
         <SelectField label="Template" value={v.template} onChange={set("template")}>
           <option value="cantilever">Tine (cantilever)</option>
           <option value="free_free">Bar (free–free)</option>

@@ -69,7 +69,7 @@ function ModelRows({ rows, title, stand }: { rows: ModeMapRow[]; title: string; 
       ) : null}
       {others.map((r) => (
         <tr key={`${r.listId}-${r.mode}`} className={clsx("border-t border-line align-top", r.measuredHz === null && "text-ink-soft")} data-mode={`${r.condition}-${r.mode}`}>
-          <td className="min-w-44 px-2 py-2">
+          <td className="sticky left-0 min-w-44 bg-surface px-2 py-2">
             <span className="font-semibold tabular-nums">{r.mode}</span>
             {r.kind ? <span className="ml-2 text-caption text-ink-soft">{modeKindLabels[r.kind]}</span> : null}
             {r.label ? <span className="block text-caption text-ink-soft">{r.label}</span> : null}
@@ -96,7 +96,7 @@ function MeasuredRows({ modes, title, stand }: { modes: MeasuredModeView[]; titl
       <SectionTitle title={title} span={span} />
       {modes.map((m) => (
         <tr key={m.id} className="border-t border-line align-top" data-measured={m.id}>
-          <td className="min-w-44 px-2 py-2 text-caption">{m.supportMode ? "Found only when held" : "—"}</td>
+          <td className="sticky left-0 min-w-44 bg-surface px-2 py-2 text-caption">{m.supportMode ? "Found only when held" : "—"}</td>
           <td className="px-2 py-2 text-right text-ink-faint">—</td>
           <td className="whitespace-nowrap px-2 py-2 text-right tabular-nums">{hz(m.measuredHz, m.measuredSpreadHz)}</td>
           <td className="whitespace-nowrap px-2 py-2 text-right tabular-nums">{m.units}</td>
@@ -119,7 +119,7 @@ export function ModeTable({ map }: { map: ModeMap }) {
         <caption className="sr-only">Predicted modes, the partials they matched, residuals after calibration, τ by support and the effect of the hold</caption>
         <thead>
           <tr className="text-left text-caption text-ink-soft">
-            <th scope="col" className="px-2 py-2">Mode</th>
+            <th scope="col" className="sticky left-0 bg-surface px-2 py-2">Mode</th>
             <th scope="col" className="px-2 py-2 text-right">Predicted (Hz)</th>
             <th scope="col" className="px-2 py-2 text-right">
               Measured (Hz)

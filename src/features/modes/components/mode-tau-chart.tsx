@@ -99,7 +99,7 @@ export function ModeTauChart({ map }: { map: ModeMap }) {
             {s.label}
           </KeyItem>
         ))}
-        <span>Median τ over units. F8 is mode 8 of the free model, H1 mode 1 of the held model.</span>
+        <span>Median τ over units.{names.size ? " F8 is mode 8 of the free model, H1 mode 1 of the held model." : ""}</span>
       </figcaption>
     </figure>
   );

@@ -65,7 +65,7 @@ export function ModesView({ workshopId, spec, params, onParams, batches, canWrit
         ) : null}
         <div className="mt-4 grid gap-4 lg:grid-cols-2">
           <ModeScope key={`${params.batch ?? ""}|${params.units ?? ""}`} map={map} batches={batches} params={params} onChange={onParams} />
-          <details className="rounded-control border border-line px-3 py-2 lg:self-start" open={!hasModel && hasMeasured}>
+          <details className="rounded-control border border-line px-3 py-2 lg:col-span-2" open={!hasModel && hasMeasured}>
             <summary className="cursor-pointer text-caption font-semibold text-ink">E from geometry (beam template)</summary>
             <div className="mt-2">
               <GeometryForm params={params} family={spec.family} lengthMm={spec.lengthMm} onApply={onParams} />
