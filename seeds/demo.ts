@@ -16,6 +16,7 @@ import { measureReferenceTone } from "../server/analysis/reference-tone.ts";
 import type { RoleName } from "../shared/permissions.ts";
 import { specInputSchema } from "../shared/schemas/spec.ts";
 import { specTemplate } from "../shared/spec-templates.ts";
+import { seedDemoBothWaysStrikes, seedDemoModeLists } from "./demo-modes.ts";
 import { prng, synthReferenceToneWav, synthStrikeWav } from "./synth.ts";
 
 export const DEMO_PASSWORD = "tinelog-demo";
@@ -101,6 +102,7 @@ function seedDemoLedger(deps: AppDeps, ids: DemoIds, opts: { strikes: boolean; i
   );
   const measured = createBatch(db, maker, { code: "BTW-2611", specId: spec.id, quantity: 10, range: { from: "F-0001", to: "F-0010" }, notes: "November run, steel bar stock lot 7 (demo)." });
   createBatch(db, maker, { code: "BTW-2612", specId: spec.id, quantity: 6, range: { from: "F-0011", to: "F-0016" }, notes: "December run (demo): strike each fork and upload." });
+  seedDemoModeLists(deps, qa, { id: spec.id, versionId: spec.currentVersionId });
   if (!opts.strikes) return;
 
   // Deviations in cents of the demo forks (invented): two out of ±5 cents, the rest within.
@@ -138,6 +140,7 @@ function seedDemoLedger(deps: AppDeps, ids: DemoIds, opts: { strikes: boolean; i
       thermometerId: opts.instruments.thermometerId,
     });
   });
+  seedDemoBothWaysStrikes(deps, maker, measured.id);
   deps.queue.notify();
 }
 

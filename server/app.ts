@@ -22,6 +22,7 @@ import { certificateRoutes } from "./routes/certificates.ts";
 import { evaluationRoutes } from "./routes/evaluations.ts";
 import { instrumentRoutes } from "./routes/instruments.ts";
 import { mailRoutes } from "./routes/mail.ts";
+import { modeRoutes } from "./routes/modes.ts";
 import { searchRoutes } from "./routes/search.ts";
 import { sessionRoutes } from "./routes/session.ts";
 import { specRoutes } from "./routes/specs.ts";
@@ -52,7 +53,7 @@ const clientDir = fileURLToPath(new URL("../dist/client", import.meta.url));
 
 /** The feature routers, in one list: the authorization matrix test walks them. */
 export function apiRouters(deps: AppDeps) {
-  return [sessionRoutes(deps), workshopRoutes(deps), mailRoutes(deps), specRoutes(deps), batchRoutes(deps), strikeRoutes(deps), certificateRoutes(deps), searchRoutes(deps), instrumentRoutes(deps), evaluationRoutes(deps)];
+  return [sessionRoutes(deps), workshopRoutes(deps), mailRoutes(deps), specRoutes(deps), modeRoutes(deps), batchRoutes(deps), strikeRoutes(deps), certificateRoutes(deps), searchRoutes(deps), instrumentRoutes(deps), evaluationRoutes(deps)];
 }
 
 export function createApp(deps: AppDeps) {

@@ -433,3 +433,38 @@ export const certificateWithdrawal = sqliteTable(
   },
   (t) => [uniqueIndex("certificate_withdrawal_certificate_unique").on(t.certificateId)],
 );
+
+/**
+ * A predicted mode list of a spec version, imported from a modal analysis: the model of the part
+ * free or as held, with the modulus and density the model assumed. Design data, not measurements:
+ * a new import of the same condition supersedes the previous list (which stays, for the record).
+ */
+export const modeList = sqliteTable(
+  "mode_list",
+  {
+    id: text("id").primaryKey(),
+    workshopId: text("workshop_id").notNull().references(() => organization.id, { onDelete: "cascade" }),
+    specVersionId: text("spec_version_id").notNull().references(() => specVersion.id, { onDelete: "cascade" }),
+    condition: text("condition", { enum: ["free", "held"] }).notNull(),
+    name: text("name").notNull().default(""),
+    sourceName: text("source_name"),
+    youngsModulusGPa: real("youngs_modulus_gpa"),
+    densityKgM3: real("density_kg_m3"),
+    createdBy: text("created_by").references(() => user.id),
+    createdAt: createdAt(),
+  },
+  (t) => [index("mode_list_version_idx").on(t.specVersionId, t.condition, t.createdAt)],
+);
+
+export const predictedMode = sqliteTable(
+  "predicted_mode",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    listId: text("list_id").notNull().references(() => modeList.id, { onDelete: "cascade" }),
+    mode: integer("mode").notNull(),
+    frequencyHz: real("frequency_hz").notNull(),
+    label: text("label").notNull().default(""),
+    kind: text("kind", { enum: ["rigid_body", "balanced", "unbalanced", "support"] }),
+  },
+  (t) => [uniqueIndex("predicted_mode_unique").on(t.listId, t.mode)],
+);

@@ -18,6 +18,7 @@ import { InstrumentsListRoute, instrumentsListLoader } from "./routes/app/instru
 import { SettingsRoute, settingsLoader } from "./routes/app/settings";
 import { SpecDetailRoute, specDetailLoader } from "./routes/app/specs/spec-detail";
 import { SpecEditRoute, specEditLoader } from "./routes/app/specs/spec-edit";
+import { SpecModesRoute, specModesLoader } from "./routes/app/specs/spec-modes";
 import { SpecNewRoute, specNewLoader } from "./routes/app/specs/spec-new";
 import { SpecsListRoute, specsListLoader } from "./routes/app/specs/specs-list";
 import { StrikeRoute, strikeLoader } from "./routes/app/strike";
@@ -83,6 +84,7 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
                 { path: paths.app.newSpecification.path, loader: specNewLoader(queryClient), element: <SpecNewRoute /> },
                 { path: paths.app.specification.path, loader: specDetailLoader(queryClient), element: <SpecDetailRoute /> },
                 { path: paths.app.editSpecification.path, loader: specEditLoader(queryClient), element: <SpecEditRoute /> },
+                { path: paths.app.specificationModes.path, loader: specModesLoader(queryClient), element: <SpecModesRoute /> },
                 { path: paths.app.settings.path, loader: settingsLoader(queryClient), element: <SettingsRoute /> },
                 { path: paths.app.instruments.path, loader: instrumentsListLoader(queryClient), element: <InstrumentsListRoute /> },
                 { path: paths.app.instrument.path, loader: instrumentLoader(queryClient), element: <InstrumentRoute /> },

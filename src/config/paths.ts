@@ -44,6 +44,7 @@ export const paths = {
     specifications: { path: "specifications", getHref: () => "/app/specifications" },
     newSpecification: { path: "specifications/new", getHref: (family?: string) => `/app/specifications/new${family ? `?family=${encodeURIComponent(family)}` : ""}` },
     specification: { path: "specifications/:specId", getHref: (id: string) => `/app/specifications/${encodeURIComponent(id)}` },
+    specificationModes: { path: "specifications/:specId/modes", getHref: (id: string, search = "") => `/app/specifications/${encodeURIComponent(id)}/modes${search}` },
     editSpecification: { path: "specifications/:specId/edit", getHref: (id: string) => `/app/specifications/${encodeURIComponent(id)}/edit` },
     settings: { path: "settings", getHref: () => "/app/settings" },
     instruments: { path: "instruments", getHref: () => "/app/instruments" },

@@ -9,11 +9,11 @@
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { apiRouters } from "../../server/app.ts";
-import { batch, disposition, instrument, mailMessage, spec, unit } from "../../server/db/schema.ts";
+import { batch, disposition, instrument, mailMessage, spec, specVersion, unit } from "../../server/db/schema.ts";
 import { ORIGIN, startTestApp, type TestApp, type Who } from "../support/app.ts";
 import { toneWav } from "../support/wav.ts";
 
-type Ids = { spec: string; batch: string; openBatch: string; unit: string; releasedUnit: string; strike: string; mail: string; certificateMail: string; invitation: string; certificate: string; verifyCode: string; disposition: string; recorder: string };
+type Ids = { spec: string; specVersion: string; batch: string; openBatch: string; unit: string; releasedUnit: string; strike: string; mail: string; certificateMail: string; invitation: string; certificate: string; verifyCode: string; disposition: string; recorder: string };
 type Row = {
   method: "GET" | "POST" | "PUT" | "PATCH" | "DELETE";
   path: string;
@@ -42,6 +42,10 @@ export const MATRIX: Row[] = [
   { method: "POST", path: "/specs", url: () => "/api/specs", body: {}, expect: [401, 403, 400, 400, 400] },
   { method: "GET", path: "/specs/:id", url: (i) => `/api/specs/${i.spec}`, expect: [401, 200, 200, 200, 404] },
   { method: "POST", path: "/specs/:id/versions", url: (i) => `/api/specs/${i.spec}/versions`, body: {}, expect: [401, 403, 400, 400, 404] },
+  { method: "GET", path: "/specs/:id/versions/:versionId/predicted-modes", url: (i) => `/api/specs/${i.spec}/versions/${i.specVersion}/predicted-modes`, expect: [401, 200, 200, 200, 404] },
+  // An empty JSON body fails validation (no modes): the guard let the role through, nothing stored.
+  { method: "POST", path: "/specs/:id/versions/:versionId/predicted-modes", url: (i) => `/api/specs/${i.spec}/versions/${i.specVersion}/predicted-modes`, body: {}, expect: [401, 403, 400, 400, 404] },
+  { method: "GET", path: "/specs/:id/mode-map", url: (i) => `/api/specs/${i.spec}/mode-map?batch=${i.batch}`, expect: [401, 200, 200, 200, 404] },
   { method: "GET", path: "/batches", url: () => "/api/batches", expect: [401, 200, 200, 200, 200] },
   { method: "POST", path: "/batches", url: () => "/api/batches", body: {}, expect: [401, 400, 400, 400, 400] },
   { method: "GET", path: "/batches/:id", url: (i) => `/api/batches/${i.batch}`, expect: [401, 200, 200, 200, 404] },
@@ -133,8 +137,10 @@ beforeAll(async () => {
   expect(inv.status, JSON.stringify(inv.body)).toBe(200);
   const mail = db.select().from(mailMessage).where(eq(mailMessage.kind, "invitation")).get()!;
   const certificateMail = db.select().from(mailMessage).where(eq(mailMessage.kind, "certificate")).get()!;
+  const specId = db.select().from(spec).get()!.id;
   ids = {
-    spec: db.select().from(spec).get()!.id,
+    spec: specId,
+    specVersion: db.select().from(specVersion).where(eq(specVersion.specId, specId)).get()!.id,
     batch: demo.id,
     openBatch: open.id,
     unit: openUnit.id,

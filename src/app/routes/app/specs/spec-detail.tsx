@@ -38,11 +38,16 @@ export function SpecDetailRoute() {
         title={spec.data.name}
         description={`${familyLabels[spec.data.family]} · version ${spec.data.currentVersion} · used by ${spec.data.batches} batch${spec.data.batches === 1 ? "" : "es"}`}
         actions={
-          can(me.activeWorkshop.role, "spec", "write") ? (
-            <ButtonLink to={paths.app.editSpecification.getHref(spec.data.id)} variant="primary">
-              Edit (new version)
+          <>
+            <ButtonLink to={paths.app.specificationModes.getHref(spec.data.id)} variant="secondary">
+              Modes
             </ButtonLink>
-          ) : undefined
+            {can(me.activeWorkshop.role, "spec", "write") ? (
+              <ButtonLink to={paths.app.editSpecification.getHref(spec.data.id)} variant="primary">
+                Edit (new version)
+              </ButtonLink>
+            ) : null}
+          </>
         }
       />
       {current?.description ? (
