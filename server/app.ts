@@ -28,6 +28,7 @@ import type { AnalysisQueue } from "./services/analysis-queue.ts";
 import type { CertificateDeps } from "./services/certificates.ts";
 import type { ReadCache } from "./services/read-cache.ts";
 import type { Storage } from "./services/storage.ts";
+import type { AnalysisPool } from "./workers/analysis-pool.ts";
 
 export type AppDeps = {
   env: Env;
@@ -40,6 +41,8 @@ export type AppDeps = {
   queue: AnalysisQueue;
   certificates: CertificateDeps;
   readCache: ReadCache;
+  /** The analysis worker pool, for a recording analysed on request (a master unit), outside the strike queue. */
+  analysis: Pick<AnalysisPool, "analyzeFile">;
 };
 
 const clientDir = fileURLToPath(new URL("../dist/client", import.meta.url));
@@ -60,7 +63,8 @@ export function createApp(deps: AppDeps) {
           "img-src": ["'self'", "data:", "blob:"],
           "media-src": ["'self'", "blob:"],
           "worker-src": ["'self'", "blob:"],
-          "frame-src": ["'self'"],
+          // The certificate preview is a PDF held in a blob: URL, shown in a frame.
+          "frame-src": ["'self'", "blob:"],
           // Only ask browsers to upgrade sub-resources when we really are on https.
           "upgrade-insecure-requests": deps.env.baseUrl.startsWith("https://") ? [] : null,
         },

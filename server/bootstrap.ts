@@ -41,7 +41,7 @@ export async function bootstrap(env: Env, logger: Logger = createLogger(env.LOG_
   // The signing key lives beside the database, never inside it: a copy of the database alone cannot forge.
   const key = loadOrCreateSigningKey(path.join(env.DATA_DIR, "keys"));
   const certificates = { db, mailer, key, dataDir: env.DATA_DIR, baseUrl: env.baseUrl, analyserVersion: ANALYSER_VERSION };
-  const deps: AppDeps = { env, db, sqlite, auth, mailer, logger, storage, queue, certificates, readCache: createReadCache(sqlite) };
+  const deps: AppDeps = { env, db, sqlite, auth, mailer, logger, storage, queue, certificates, readCache: createReadCache(sqlite), analysis: pool };
   if (env.SEED_DEMO) await seedDemo(deps);
   return {
     ...deps,

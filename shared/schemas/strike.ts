@@ -59,6 +59,22 @@ export type StrikeDetail = StrikeSummary & {
   unit: { id: string; serial: string; batchId: string; batchCode: string };
   /** Labels of the spec's partials matched to this strike's partials: index in result.strikes[0].partials → label. */
   labels: Record<number, string>;
+  /** The strike note read from result.strikes[0] when the spec targets one, with the partials it was read from. */
+  strikeNote: StrikeNoteReading | null;
+  /** The spec's reference pitch (A4, Hz), for naming notes. */
+  referencePitchHz: number;
+};
+
+/** A strike note as read from one strike: the heard pitch and the partials (indices, harmonic numbers) it came from. */
+export type StrikeNoteReading = {
+  label: string;
+  frequencyHz: number;
+  /** Standard uncertainty (k = 1) from the partials' fits, Hz. */
+  uncertaintyHz: number;
+  targetHz: number | null;
+  /** RMS misfit of the partials from the 2 : 3 : 4 series, cents. */
+  misfitCents: number;
+  members: { index: number; harmonic: number; deviationCents: number }[];
 };
 
 export type UnitDetail = {
