@@ -13,6 +13,9 @@
 import type { Partial as MeasuredPartial } from "./schemas/analysis.ts";
 import { cents } from "./physics.ts";
 
+/** "2 : 3 : 4" with no-break spaces, for screens (the ratio never breaks across lines). */
+export const SERIES_WORDS = "2\u00a0:\u00a03\u00a0:\u00a04";
+
 /** The harmonic numbers of the series a strike note is read from. */
 export const STRIKE_NOTE_HARMONICS = [2, 3, 4] as const;
 
