@@ -6,6 +6,11 @@
  * Deterministic: the same CertificateData gives the same bytes (CreationDate/ModDate come from
  * issuedAt, pdfkit derives the file ID from the info dictionary, fonts and QR are generated without
  * randomness), so the stored SHA-256 can be recomputed.
+ *
+ * Layout: each section is measured first on a scratch page. A certificate whose content fits one
+ * page is set on one page (with its spacing tightened a little if that is what it takes); a
+ * longer one breaks between sections, never inside one — except a results table longer than a
+ * page, which continues on the next page with its header repeated.
  */
 import { createRequire } from "node:module";
 import PDFDocument from "pdfkit";
@@ -212,20 +217,62 @@ export async function renderCertificatePdf(input: CertificateData): Promise<Buff
   doc.registerFont("medium", FONTS.medium);
   doc.registerFont("semibold", FONTS.semibold);
 
+  // The sections in order; the notes keep the end mark with them, so it never stands alone.
+  const sections: ((d: Doc) => void)[] = [
+    (d) => drawTitleBlock(d, data, qr),
+    (d) => drawParticulars(d, data),
+    (d) => drawMethod(d, data),
+    (d) => drawResults(d, data),
+    (d) => drawDecisionRule(d, data),
+    (d) => drawConformity(d, data),
+    (d) => drawAuthorisation(d, data),
+    (d) => {
+      drawFinePrint(d, data);
+      drawEndMark(d);
+    },
+  ];
+  const pageRoom = BOTTOM - MARGIN.top;
+  // One page if the content fits at the designed spacing or somewhat tighter; else the designed spacing over pages.
+  let heights: number[] = [];
+  for (const k of [1, 0.75, 0.5]) {
+    spacing = k;
+    heights = measureSections(sections);
+    if (heights.reduce((a, b) => a + b, 0) <= pageRoom) break;
+    spacing = 1;
+  }
+  if (spacing === 1) heights = measureSections(sections);
+
   doc.on("pageAdded", () => drawHeader(doc, data));
   doc.addPage();
-
-  drawTitleBlock(doc, data, qr);
-  drawParticulars(doc, data);
-  drawResults(doc, data);
-  drawConformity(doc, data);
-  drawAuthorisation(doc, data);
-  drawFinePrint(doc, data);
-  drawEndMark(doc);
+  sections.forEach((draw, i) => {
+    // A section that fits a page starts on a fresh one rather than breaking; a longer one breaks inside.
+    if (i > 0 && doc.y + heights[i] > BOTTOM && heights[i] <= pageRoom) doc.addPage();
+    sectionFits = doc.y + heights[i] <= BOTTOM;
+    draw(doc);
+    sectionFits = false;
+  });
+  spacing = 1;
 
   drawFooters(doc, data);
   doc.end();
   return finished;
+}
+
+/** Height of each section (pt) drawn one after another on a scratch page too tall to break. */
+function measureSections(sections: ((d: Doc) => void)[]): number[] {
+  const scratch = new PDFDocument({ size: [PAGE.width, 40_000], margins: MARGIN, autoFirstPage: false });
+  scratch.registerFont("regular", FONTS.regular);
+  scratch.registerFont("medium", FONTS.medium);
+  scratch.registerFont("semibold", FONTS.semibold);
+  scratch.addPage();
+  scratch.y = MARGIN.top;
+  const heights = sections.map((draw) => {
+    const y0 = scratch.y;
+    draw(scratch);
+    return scratch.y - y0;
+  });
+  scratch.end();
+  return heights;
 }
 
 function drawHeader(doc: Doc, data: CertificateData): void {
@@ -273,13 +320,21 @@ function drawSupersededWatermark(doc: Doc): void {
   doc.restore();
 }
 
+/**
+ * Vertical spacing of the sections, 1 = as designed. Set for one render at a time (drawing is
+ * synchronous); a certificate that just misses one page is tightened to fit.
+ */
+let spacing = 1;
+/** True while drawing a section already known to fit where it starts: no break inside it then. */
+let sectionFits = false;
+
 function ensureSpace(doc: Doc, height: number): void {
-  if (doc.y + height > BOTTOM) doc.addPage();
+  if (!sectionFits && doc.y + height > doc.page.height - MARGIN.bottom) doc.addPage();
 }
 
 function sectionHeading(doc: Doc, title: string, spaceAfterHeading = 40): void {
   ensureSpace(doc, 18 + spaceAfterHeading);
-  doc.moveDown(0.5);
+  doc.moveDown(0.5 * spacing);
   doc.font("semibold").fontSize(10).fillColor(COLOUR.accent).text(title, MARGIN.left, doc.y, { width: CONTENT_WIDTH });
   doc.moveDown(0.25);
 }
@@ -313,7 +368,7 @@ function drawTitleBlock(doc: Doc, data: CertificateData, qr: Buffer): void {
   doc.x = MARGIN.left;
 
   doc.font("regular").fontSize(7.5).fillColor(COLOUR.muted).text(`Verify at ${data.verifyUrl} \u00B7 code ${data.verificationCode}`, MARGIN.left, doc.y, { width: CONTENT_WIDTH, align: "right", link: data.verifyUrl });
-  doc.moveDown(0.4);
+  doc.moveDown(0.4 * spacing);
 
   if (data.superseded) {
     const msg = data.supersededBy
@@ -377,7 +432,9 @@ function drawParticulars(doc: Doc, data: CertificateData): void {
   const rightEnd = labelledColumn(doc, right, MARGIN.left + colW + 24, top, colW);
   doc.x = MARGIN.left;
   doc.y = Math.max(leftEnd, rightEnd);
+}
 
+function drawMethod(doc: Doc, data: CertificateData): void {
   sectionHeading(doc, "Method", 40);
   doc.font("medium").fontSize(9).fillColor(COLOUR.ink).text(`${data.method.name}, analyser version ${data.method.analyserVersion}`, MARGIN.left, doc.y, { width: CONTENT_WIDTH });
   doc.font("regular").fontSize(8.5).fillColor(COLOUR.ink).text(data.method.summary, { width: CONTENT_WIDTH, lineGap: 1 });
@@ -388,20 +445,26 @@ function labelledColumn(doc: Doc, rows: [string, string][], x: number, y: number
   for (const [label, value] of rows) {
     doc.font("regular").fontSize(7.5).fillColor(COLOUR.muted).text(label, x, y + 1, { width: labelW });
     doc.font("regular").fontSize(9).fillColor(COLOUR.ink).text(value, x + labelW, y, { width: width - labelW, lineGap: 0.5 });
-    y = doc.y + 3;
+    y = doc.y + 3 * spacing;
   }
   return y;
 }
 
-function drawTableHeader(doc: Doc): void {
+/** Column titles; a frequency corrected to the reference temperature says so in its header. */
+function titleOf(col: Column, data: CertificateData): string {
+  const t = data.conditions.referenceTemperatureC;
+  return col.key === "measured" && t !== null && t !== undefined ? `Measured at ${trimNumber(t, 1)} \u00B0C (Hz)` : col.title;
+}
+
+function drawTableHeader(doc: Doc, data: CertificateData): void {
   const y = doc.y;
   doc.font("medium").fontSize(7.5);
-  const h = Math.max(...COLUMNS.map((c) => doc.heightOfString(c.title, { width: c.width - 6 }))) + 8;
+  const h = Math.max(...COLUMNS.map((c) => doc.heightOfString(titleOf(c, data), { width: c.width - 6 }))) + 8;
   doc.rect(MARGIN.left, y, CONTENT_WIDTH, h).fillColor(COLOUR.accentSoft).fill();
   let x = MARGIN.left;
   doc.fillColor(COLOUR.ink);
   for (const col of COLUMNS) {
-    doc.text(col.title, x + 3, y + 4, { width: col.width - 6, align: col.align });
+    doc.text(titleOf(col, data), x + 3, y + 4, { width: col.width - 6, align: col.align });
     x += col.width;
   }
   doc.y = y + h;
@@ -409,16 +472,16 @@ function drawTableHeader(doc: Doc): void {
 
 function drawResults(doc: Doc, data: CertificateData): void {
   sectionHeading(doc, "Results", 70);
-  drawTableHeader(doc);
+  drawTableHeader(doc, data);
   data.results.forEach((r, i) => {
     const cells = cellsFor(r);
     doc.font("regular").fontSize(8);
     const h = Math.max(...COLUMNS.map((c) => doc.heightOfString(cells[c.key], { width: c.width - 6 }))) + 8;
-    if (doc.y + h > BOTTOM) {
+    if (!sectionFits && doc.y + h > doc.page.height - MARGIN.bottom) {
       doc.addPage();
       doc.font("regular").fontSize(7.5).fillColor(COLOUR.muted).text("Results, continued", MARGIN.left, doc.y);
       doc.moveDown(0.3);
-      drawTableHeader(doc);
+      drawTableHeader(doc, data);
     }
     const y = doc.y;
     if (i % 2 === 1) doc.rect(MARGIN.left, y, CONTENT_WIDTH, h).fillColor(COLOUR.zebra).fill();
@@ -447,10 +510,12 @@ function drawResults(doc: Doc, data: CertificateData): void {
     );
 }
 
-function drawConformity(doc: Doc, data: CertificateData): void {
+function drawDecisionRule(doc: Doc, data: CertificateData): void {
   sectionHeading(doc, "Decision rule", 30);
   doc.font("regular").fontSize(8.5).fillColor(COLOUR.ink).text(decisionRuleWords[data.decisionRule], MARGIN.left, doc.y, { width: CONTENT_WIDTH, lineGap: 1 });
+}
 
+function drawConformity(doc: Doc, data: CertificateData): void {
   sectionHeading(doc, "Statement of conformity", 50);
   const colour = VERDICT_COLOUR[data.verdict];
   doc.font("semibold").fontSize(10);
@@ -493,14 +558,14 @@ function drawFinePrint(doc: Doc, data: CertificateData): void {
     const y = doc.y;
     doc.fillColor(COLOUR.muted).text(`${i + 1}.`, MARGIN.left, y, { width: 12 });
     doc.fillColor(strong ? COLOUR.ink : COLOUR.muted).text(note, MARGIN.left + 14, y, { width: CONTENT_WIDTH - 14, lineGap: 0.5 });
-    doc.y += 2.5;
+    doc.y += 2.5 * spacing;
   });
   doc.x = MARGIN.left;
 }
 
 function drawEndMark(doc: Doc): void {
   ensureSpace(doc, 30);
-  doc.moveDown(1);
+  doc.moveDown(spacing);
   const y = doc.y + 5;
   const label = FINE_PRINT.endMark;
   doc.font("medium").fontSize(8.5).fillColor(COLOUR.accent);

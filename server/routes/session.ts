@@ -38,8 +38,10 @@ export function sessionRoutes({ db }: AppDeps) {
       .innerJoin(user, eq(user.id, invitation.inviterId))
       .where(eq(invitation.id, String(req.params.id)))
       .get();
-    if (!row) throw notFound("That invitation");
-    res.json(row);
+    if (row) return res.json(row);
+    // The invitation page asks with ?notFound=ok: an old or mistyped link is an expected visitor, not an error.
+    if (req.query.notFound === "ok") return res.json({ found: false });
+    throw notFound("That invitation");
   });
 
   return r;

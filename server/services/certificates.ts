@@ -9,6 +9,7 @@ import path from "node:path";
 import { and, asc, desc, eq, like, max } from "drizzle-orm";
 import type { EvaluationView } from "../../shared/schemas/evaluation.ts";
 import {
+  certificateNumber,
   defaultStatementOfConformity,
   needsMeasurementOnlyCaution,
   type CertificateData,
@@ -128,7 +129,7 @@ function nextNumber(db: Db, workshopId: string, prefix: string, at: Date): strin
   const stem = `${prefix}-${at.getUTCFullYear()}-`;
   const [{ last }] = db.select({ last: max(certificate.number) }).from(certificate).where(and(eq(certificate.workshopId, workshopId), like(certificate.number, `${stem}%`))).all();
   const n = last ? Number(last.slice(stem.length)) + 1 : 1;
-  return `${stem}${String(n).padStart(5, "0")}`;
+  return certificateNumber(prefix, at.getUTCFullYear(), n);
 }
 
 export async function previewCertificate(deps: CertificateDeps, actor: Actor & { name: string; role: RoleName }, unitId: string, input: IssueCertificateInput): Promise<Buffer> {
@@ -246,9 +247,10 @@ export async function certificatePdf(deps: CertificateDeps, workshopId: string, 
 }
 
 /** What the public verification page shows: no contact data of the customer. */
+/** What the public verification page shows for a code, or null when no certificate has it. */
 export function verifyByCode(deps: CertificateDeps, code: string) {
   const c = deps.db.select().from(certificate).where(eq(certificate.verificationCode, code)).get();
-  if (!c) throw notFound("No certificate has this verification code; check the link. A certificate");
+  if (!c) return null;
   const data = JSON.parse(c.canonical) as CertificateData;
   const signatureValid = verifyCertificate(c.canonical, c.signature, deps.key.publicKey) && data.number === c.number && data.verificationCode === c.verificationCode;
   let pdfIntact = false;

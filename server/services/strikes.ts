@@ -266,7 +266,7 @@ export function getUnit(db: Db, workshopId: string, unitId: string): UnitDetail 
     customerEmail: u.customerEmail,
     createdAt: u.createdAt.toISOString(),
     batch: { id: b.id, code: b.code, state: b.state },
-    spec: { id: spec.specId, name: spec.name, version: spec.version, versionId: spec.id, family: spec.family },
+    spec: { id: spec.specId, name: spec.name, version: spec.version, versionId: spec.id, family: spec.family, referenceTemperatureC: spec.referenceTemperatureC },
     strikes,
     evaluation: ev,
     dispositions,

@@ -169,3 +169,8 @@ export function defaultStatementOfConformity(verdict: Verdict, rule: DecisionRul
       return `No required partial was found outside the tolerance of ${under}, but for at least one the measurement uncertainty does not allow a decision. Conformity can neither be confirmed nor ruled out.`;
   }
 }
+
+/** A certificate number: the workshop's prefix, the year of issue and a five-digit sequence (BTW-2026-00001). */
+export function certificateNumber(prefix: string, year: number, sequence: number): string {
+  return `${prefix}-${year}-${String(sequence).padStart(5, "0")}`;
+}

@@ -84,7 +84,7 @@ export type UnitDetail = {
   customerEmail: string | null;
   createdAt: string;
   batch: { id: string; code: string; state: BatchState };
-  spec: { id: string; name: string; version: number; versionId: string; family: Family };
+  spec: { id: string; name: string; version: number; versionId: string; family: Family; referenceTemperatureC: number };
   strikes: StrikeSummary[];
   evaluation: EvaluationView | null;
   dispositions: { id: string; decision: DispositionDecision; reason: string; at: string; by: { id: string; name: string } | null; evaluationId: string | null }[];

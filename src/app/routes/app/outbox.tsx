@@ -22,7 +22,7 @@ export function OutboxRoute() {
     <>
       <PageHeader
         title="Outbox"
-        description="Every e-mail Tinelog has sent for this workshop. In development the mail is captured here instead of being delivered."
+        description="Mail sent by Tinelog for this workshop — invitations and certificates — exactly as it went out, with its attachments."
       />
       <Panel>
         <MailList

@@ -1,16 +1,20 @@
 /**
  * The batch ledger: one row per unit with its latest evaluation (TanStack Table for sorting and
  * filtering). The filter is the QA view: units out of tolerance, or every unit still open.
+ * From a tablet up it is a table that scrolls inside its panel with the serial column kept in
+ * view; on a phone each unit is a card (serial, verdict, deviation, T60, disposition). Never the
+ * page scrolls sideways.
  */
 import { createColumnHelper, flexRender, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
 import clsx from "clsx";
-import { useEffect, useMemo, useState } from "react";
+import { useEffect, useMemo, useState, type ReactNode } from "react";
 import { flushSync } from "react-dom";
 import { Link } from "react-router";
 import type { LedgerRow } from "@shared/schemas/batch";
 import { EmptyState } from "@/components/ui/panel";
 import { DispositionBadge, VerdictBadge } from "@/components/ui/status-badges";
 import { formatCents, formatNumber } from "@/lib/format";
+import { useMediaQuery } from "@/lib/use-media-query";
 
 export type LedgerFilter = "all" | "out_of_tolerance" | "open";
 const filterLabels: Record<LedgerFilter, string> = { all: "All units", out_of_tolerance: "Out of tolerance", open: "Open" };
@@ -25,19 +29,35 @@ const column = createColumnHelper<LedgerRow>();
 const FIRST_ROWS = 250;
 const verdictOrder = { out_of_tolerance: 0, inconclusive: 1, within_tolerance: 2 } as const;
 
-type Props = { rows: LedgerRow[]; unitHref: (id: string) => string; toleranceCents: number | null };
+type Props = { rows: LedgerRow[]; unitHref: (id: string) => string; toleranceCents: number | null; referenceTemperatureC?: number };
 
-export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
+/** Cards below this width (Tailwind's sm, 40rem): a phone held upright. */
+const CARDS_QUERY = "(max-width: 39.99rem)";
+
+export function LedgerTable({ rows, unitHref, toleranceCents, referenceTemperatureC = 20 }: Props) {
   const [filter, setFilter] = useState<LedgerFilter>("all");
   const [sorting, setSorting] = useState<SortingState>([]);
   const [limit, setLimit] = useState(FIRST_ROWS);
+  const [printing, setPrinting] = useState(false);
+  const phone = useMediaQuery(CARDS_QUERY) && !printing;
 
-  // The printed ledger is the whole ledger: draw every row before the browser lays out the print.
+  // The printed ledger is the whole ledger, as a table: draw every row before the browser lays out the print.
   useEffect(() => {
-    const showAll = () => flushSync(() => setLimit(Number.POSITIVE_INFINITY));
+    const showAll = () =>
+      flushSync(() => {
+        setLimit(Number.POSITIVE_INFINITY);
+        setPrinting(true);
+      });
+    const done = () => setPrinting(false);
     window.addEventListener("beforeprint", showAll);
-    return () => window.removeEventListener("beforeprint", showAll);
+    window.addEventListener("afterprint", done);
+    return () => {
+      window.removeEventListener("beforeprint", showAll);
+      window.removeEventListener("afterprint", done);
+    };
   }, []);
+  const corrected = rows.some((r) => r.temperatureCorrected);
+  const outside = (value: number | null) => value != null && toleranceCents != null && Math.abs(value) > toleranceCents;
 
   const columns = useMemo(
     () => [
@@ -54,15 +74,16 @@ export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
         header: "Verdict",
         cell: (info) => <VerdictBadge verdict={info.row.original.verdict} />,
       }),
-      column.accessor("fundamentalHz", { header: "Fundamental (Hz)", cell: (info) => formatNumber(info.getValue(), 3), meta: { numeric: true } }),
+      column.accessor("fundamentalHz", {
+        // Say so when the frequencies shown were corrected to the spec's reference temperature.
+        header: corrected ? `Fundamental at ${referenceTemperatureC} °C (Hz)` : "Fundamental (Hz)",
+        cell: (info) => formatNumber(info.getValue(), 3),
+        meta: { numeric: true },
+      }),
       column.accessor("deviationCents", {
         header: "Deviation (cents)",
         meta: { numeric: true },
-        cell: (info) => {
-          const value = info.getValue();
-          const outside = value != null && toleranceCents != null && Math.abs(value) > toleranceCents;
-          return <span className={outside ? "font-semibold text-rust-700" : undefined}>{formatCents(value)}</span>;
-        },
+        cell: (info) => <span className={outside(info.getValue()) ? "font-semibold text-rust-700" : undefined}>{formatCents(info.getValue())}</span>,
       }),
       column.accessor("overtoneRatio", { header: "Overtone ratio", cell: (info) => formatNumber(info.getValue(), 3), meta: { numeric: true } }),
       column.accessor("t60S", { header: "T60 (s)", cell: (info) => formatNumber(info.getValue(), 1), meta: { numeric: true } }),
@@ -70,27 +91,16 @@ export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
       column.accessor((row) => row.disposition?.decision ?? "", {
         id: "disposition",
         header: "Disposition",
-        cell: (info) => {
-          const d = info.row.original.disposition;
-          if (d) return <DispositionBadge decision={d.decision} />;
-          return info.row.original.open && info.row.original.verdict && info.row.original.verdict !== "within_tolerance" ? <span className="text-caption text-ochre-600">Awaiting decision</span> : <span className="text-ink-faint">—</span>;
-        },
+        cell: (info) => <Disposition row={info.row.original} />,
       }),
       column.accessor("strikes", {
         header: "Strikes",
         meta: { numeric: true },
-        cell: (info) => {
-          const pending = info.row.original.pendingStrikes;
-          return (
-            <span>
-              {info.getValue()}
-              {pending > 0 ? <span className="ml-1 text-caption text-steel-700">({pending} analysing)</span> : null}
-            </span>
-          );
-        },
+        cell: (info) => <Strikes row={info.row.original} />,
       }),
     ],
-    [unitHref, toleranceCents],
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+    [unitHref, toleranceCents, corrected, referenceTemperatureC],
   );
 
   const data = useMemo(
@@ -123,9 +133,38 @@ export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
         <EmptyState title={rows.length === 0 ? "No units in this batch yet" : `No units are ${filter === "open" ? "open" : "out of tolerance"}`}>
           {rows.length === 0 ? "Add units by a list of serials or a serial range below." : "Choose “All units” to see the whole batch."}
         </EmptyState>
+      ) : phone ? (
+        <ul className="flex flex-col gap-2" aria-label="Units of the batch">
+          {table.getRowModel().rows.slice(0, limit).map(({ original: row }) => (
+            <li key={row.id} className={clsx("rounded-control border border-line px-3 py-2.5", row.verdict === "out_of_tolerance" ? "bg-rust-50/60" : "bg-surface")}>
+              <div className="flex flex-wrap items-center justify-between gap-x-3 gap-y-1">
+                <Link to={unitHref(row.id)} className="text-lead font-semibold text-steel-700 underline underline-offset-2">
+                  {row.serial}
+                </Link>
+                <VerdictBadge verdict={row.verdict} />
+              </div>
+              <dl className="mt-1.5 grid grid-cols-2 gap-x-3 gap-y-1 text-caption">
+                <CardFact label="Deviation">
+                  <span className={clsx("text-body tabular-nums", outside(row.deviationCents) && "font-semibold text-rust-700")}>{formatCents(row.deviationCents)}</span>
+                </CardFact>
+                <CardFact label="T60">
+                  <span className="text-body tabular-nums">{row.t60S != null ? `${formatNumber(row.t60S, 1)} s` : "—"}</span>
+                </CardFact>
+                <CardFact label="Disposition" wide>
+                  <Disposition row={row} />
+                </CardFact>
+                {row.pendingStrikes > 0 ? (
+                  <CardFact label="Strikes" wide>
+                    <Strikes row={row} />
+                  </CardFact>
+                ) : null}
+              </dl>
+            </li>
+          ))}
+        </ul>
       ) : (
-        <div className="ledger-scroll overflow-x-auto">
-          <table className="ledger-table w-full whitespace-nowrap text-left">
+        <div className="ledger-scroll max-w-full overflow-x-auto">
+          <table className="ledger-table w-full text-left">
             <caption className="sr-only">Units of the batch</caption>
             <thead className="border-b border-line-strong text-caption text-ink-soft">
               {table.getHeaderGroups().map((group) => (
@@ -134,8 +173,13 @@ export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
                     const numeric = (header.column.columnDef.meta as { numeric?: boolean } | undefined)?.numeric;
                     const sorted = header.column.getIsSorted();
                     return (
-                      <th key={header.id} scope="col" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : "none"} className={clsx("py-2 pr-3 font-semibold", numeric && "text-right")}>
-                        <button type="button" onClick={header.column.getToggleSortingHandler()} className="inline-flex items-center gap-1 hover:text-ink">
+                      <th
+                        key={header.id}
+                        scope="col"
+                        aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : "none"}
+                        className={clsx("py-2 pr-3 align-bottom font-semibold", numeric && "text-right", header.column.id === "serial" && "sticky left-0 z-10 bg-surface")}
+                      >
+                        <button type="button" onClick={header.column.getToggleSortingHandler()} className={clsx("inline-flex items-end gap-1 hover:text-ink", numeric && "justify-end text-right")}>
                           {flexRender(header.column.columnDef.header, header.getContext())}
                           <span aria-hidden="true" className="no-print text-ink-faint">
                             {sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}
@@ -153,7 +197,15 @@ export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
                   {row.getVisibleCells().map((cell) => {
                     const numeric = (cell.column.columnDef.meta as { numeric?: boolean } | undefined)?.numeric;
                     return (
-                      <td key={cell.id} className={clsx("py-2 pr-3 align-middle", numeric && "text-right tabular-nums")}>
+                      <td
+                        key={cell.id}
+                        className={clsx(
+                          "whitespace-nowrap py-2 pr-3 align-middle",
+                          numeric && "text-right tabular-nums",
+                          // The serial stays in view while the row scrolls; it keeps the row's own tint.
+                          cell.column.id === "serial" && (row.original.verdict === "out_of_tolerance" ? "sticky left-0 z-10 bg-[#fbf0ec]" : "sticky left-0 z-10 bg-surface"),
+                        )}
+                      >
                         {flexRender(cell.column.columnDef.cell, cell.getContext())}
                       </td>
                     );
@@ -162,21 +214,44 @@ export function LedgerTable({ rows, unitHref, toleranceCents }: Props) {
               ))}
             </tbody>
           </table>
-          {data.length > limit ? (
-            <div className="no-print mt-3 flex flex-wrap items-center gap-3 text-caption text-ink-soft">
-              <span>
-                Showing {limit} of {data.length} units{sorting.length ? " (sorted)" : ""}.
-              </span>
-              <button type="button" className="font-medium text-steel-700 underline underline-offset-2" onClick={() => setLimit((n) => n + FIRST_ROWS)}>
-                Show {Math.min(FIRST_ROWS, data.length - limit)} more
-              </button>
-              <button type="button" className="font-medium text-steel-700 underline underline-offset-2" onClick={() => setLimit(Number.POSITIVE_INFINITY)}>
-                Show all {data.length}
-              </button>
-            </div>
-          ) : null}
         </div>
       )}
+      {data.length > limit ? (
+        <div className="no-print mt-3 flex flex-wrap items-center gap-3 text-caption text-ink-soft">
+          <span>
+            Showing {limit} of {data.length} units{sorting.length ? " (sorted)" : ""}.
+          </span>
+          <button type="button" className="font-medium text-steel-700 underline underline-offset-2" onClick={() => setLimit((n) => n + FIRST_ROWS)}>
+            Show {Math.min(FIRST_ROWS, data.length - limit)} more
+          </button>
+          <button type="button" className="font-medium text-steel-700 underline underline-offset-2" onClick={() => setLimit(Number.POSITIVE_INFINITY)}>
+            Show all {data.length}
+          </button>
+        </div>
+      ) : null}
+    </div>
+  );
+}
+
+function Disposition({ row }: { row: LedgerRow }) {
+  if (row.disposition) return <DispositionBadge decision={row.disposition.decision} />;
+  return row.open && row.verdict && row.verdict !== "within_tolerance" ? <span className="text-caption text-ochre-600">Awaiting decision</span> : <span className="text-ink-faint">—</span>;
+}
+
+function Strikes({ row }: { row: LedgerRow }) {
+  return (
+    <span>
+      {row.strikes}
+      {row.pendingStrikes > 0 ? <span className="ml-1 text-caption text-steel-700">({row.pendingStrikes} analysing)</span> : null}
+    </span>
+  );
+}
+
+function CardFact({ label, children, wide = false }: { label: string; children: ReactNode; wide?: boolean }) {
+  return (
+    <div className={clsx("flex min-w-0 flex-col", wide && "col-span-2")}>
+      <dt className="text-ink-faint">{label}</dt>
+      <dd className="min-w-0">{children}</dd>
     </div>
   );
 }

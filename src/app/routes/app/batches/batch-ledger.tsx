@@ -101,7 +101,7 @@ export function BatchLedgerRoute() {
           <h2 id="ledger-heading" className="mb-3 text-title font-semibold">
             Ledger
           </h2>
-          <LedgerTable rows={b.rows} unitHref={paths.app.unit.getHref} toleranceCents={b.fundamentalToleranceCents} />
+          <LedgerTable rows={b.rows} unitHref={paths.app.unit.getHref} toleranceCents={b.fundamentalToleranceCents} referenceTemperatureC={b.referenceTemperatureC} />
         </Panel>
 
         {/* ── Batch charts slot: control chart, histogram and capability (src/features/batch-charts) ── */}
@@ -115,7 +115,7 @@ export function BatchLedgerRoute() {
             <h2 id="add-heading" className="mb-3 text-title font-semibold">
               Add units
             </h2>
-            <AddUnitsForm workshopId={workshopId} batchId={b.id} />
+            <AddUnitsForm workshopId={workshopId} batchId={b.id} lastSerial={b.rows.at(-1)?.serial ?? null} remaining={b.quantity - b.units} />
           </Panel>
         ) : null}
       </div>

@@ -114,7 +114,7 @@ export function UnitRoute() {
           <h2 id="evaluation-heading" className="mb-3 text-title font-semibold">
             Evaluation
           </h2>
-          <EvaluationPanel evaluation={evaluation} pending={pending} />
+          <EvaluationPanel evaluation={evaluation} pending={pending} referenceTemperatureC={u.spec.referenceTemperatureC} />
         </Panel>
 
         {evaluation?.guidance && evaluation.verdict !== "within_tolerance" ? (
