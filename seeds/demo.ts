@@ -88,7 +88,7 @@ function seedDemoLedger(deps: AppDeps, ids: DemoIds, opts: { strikes: boolean })
     specInputSchema.parse({
       ...template,
       name: "BTW-440 concert fork, steel",
-      description: "Brightwater's A4 concert fork (invented demo product). " + (template.description ?? ""),
+      description: "Brightwater's A4 concert fork (invented demo product).\n" + (template.description ?? ""),
       lengthMm: 80,
       strikesRequired: 1,
       partials: [
@@ -148,9 +148,9 @@ function seedChimeLedger(deps: AppDeps, ids: DemoIds, opts: { strikes: boolean }
   const { db } = deps;
   const owner = { workshopId: ids.otherWorkshopId, userId: ids.users["other@example.com"] };
   const tubeTemplate = specTemplate("tube");
-  const tubeSpec = createSpec(db, owner, specInputSchema.parse({ ...tubeTemplate, name: "FHC chime tube C5, aluminium", description: "Fernhollow's C5 garden chime tube (invented demo product). " + (tubeTemplate.description ?? ""), strikesRequired: 1 }));
+  const tubeSpec = createSpec(db, owner, specInputSchema.parse({ ...tubeTemplate, name: "FHC chime tube C5, aluminium", description: "Fernhollow's C5 garden chime tube (invented demo product).\n" + (tubeTemplate.description ?? ""), strikesRequired: 1 }));
   const bellTemplate = specTemplate("handbell");
-  const bellSpec = createSpec(db, owner, specInputSchema.parse({ ...bellTemplate, name: "FHC handbell A4, bronze", description: "Fernhollow's A4 handbell (invented demo product). " + (bellTemplate.description ?? ""), strikesRequired: 1 }));
+  const bellSpec = createSpec(db, owner, specInputSchema.parse({ ...bellTemplate, name: "FHC handbell A4, bronze", description: "Fernhollow's A4 handbell (invented demo product).\n" + (bellTemplate.description ?? ""), strikesRequired: 1 }));
   const tubes = createBatch(db, owner, { code: "FHC-T-07", specId: tubeSpec.id, quantity: 3, range: { from: "CT-0701", to: "CT-0703" }, notes: "Garden chimes, tube stock lot 3 (demo)." });
   const bells = createBatch(db, owner, { code: "FHC-B-02", specId: bellSpec.id, quantity: 3, range: { from: "HB-0201", to: "HB-0203" }, notes: "Handbells for a school set (demo)." });
   if (!opts.strikes) return;

@@ -660,11 +660,11 @@ const BEAM_FAMILIES: SpecInput["family"][] = ["tuning_fork", "free_bar", "tube",
  * waist above the sound bow, the nominal at the sound bow near the lip; the quint follows the others.
  */
 const BELL_PARTIAL_PLACES: { match: RegExp; name: string; place: string | null }[] = [
-  { match: /\bhum\b/i, name: "hum", place: "high on the inside, toward the shoulder" },
-  { match: /\b(prime|fundamental|strike)\b/i, name: "prime", place: "on the inside at the waist, about halfway up" },
-  { match: /\btierce\b/i, name: "tierce", place: "on the inside low in the waist, just above the sound bow" },
+  { match: /\bhum\b/i, name: "hum", place: "from the inside, high up toward the shoulder" },
+  { match: /\b(prime|fundamental|strike)\b/i, name: "prime", place: "from the inside at the waist, about halfway up" },
+  { match: /\btierce\b/i, name: "tierce", place: "from the inside, low in the waist just above the sound bow" },
   { match: /\bquint\b/i, name: "quint", place: null },
-  { match: /\bnominal\b/i, name: "nominal", place: "on the inside at the sound bow, near the lip" },
+  { match: /\bnominal\b/i, name: "nominal", place: "from the inside at the sound bow, near the lip" },
 ];
 
 /** The trade's direction for one named partial of a bell out of tolerance, or null for a name it does not know. */

@@ -121,7 +121,7 @@ export function specFromMaster(partials: readonly MeasuredPartial[], opts: Maste
     `From the master unit recorded in "${opts.source.fileName}" (sha256 ${opts.source.sha256.slice(0, 16)}…), analysed ${opts.source.analysedAt.slice(0, 10)}${opts.temperatureC !== null ? `, struck at ${opts.temperatureC} °C and corrected to ${referenceTemperatureC} °C` : ""}.`,
     `Its ${rows.length === 1 ? "partial is the target" : `${chosen.length} strongest partials are the targets`}: ${note ? "the strike note" : "the fundamental"} at ${fundamentalHz.toFixed(3)} Hz (${near.name} ${sign}${Math.abs(near.cents).toFixed(1)} cents at A4 = 440 Hz), the others as ratios to it.`,
     `Tolerances ±${opts.fundamentalToleranceCents} cents on the ${note ? "strike note" : "fundamental"} and ±${opts.partialToleranceCents} cents on the ratios are typical starting values — confirm with your own parts, and keep the master recording with this specification.`,
-  ].join(" ");
+  ].join("\n");
 
   const draft: SpecFormValues = {
     ...template,

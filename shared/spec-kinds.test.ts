@@ -185,7 +185,7 @@ describe("bell tuning guidance (direction only, with the caution)", () => {
       ["Tierce", "lower"],
       ["Nominal", "raise"],
     ]);
-    expect(g.partials![0].remedy).toContain("low in the waist, just above the sound bow");
+    expect(g.partials![0].remedy).toContain("low in the waist just above the sound bow");
     expect(g.partials![1].remedy).toContain("Removing metal lowers bell partials");
     expect(g.estimate).toBeNull();
     expect(g.caution).toContain("eye and hearing protection");

@@ -106,7 +106,7 @@ function build(family: Family): SpecFormValues {
           "±5 cents on the fundamental is a typical starting value for musical forks; clinical and laboratory forks may call for guarded acceptance.",
           STARTING_POINT_NOTE,
           STEEL_COEFFICIENT_NOTE,
-        ].join(" "),
+        ].join("\n"),
         [
           // ±5 cents: common practice for musical forks, no published source.
           fundamental(5),
@@ -127,7 +127,7 @@ function build(family: Family): SpecFormValues {
           PITCH_NOTE,
           STARTING_POINT_NOTE,
           STEEL_COEFFICIENT_NOTE,
-        ].join(" "),
+        ].join("\n"),
         [
           // ±5 cents on the fundamental, wider on the overtones: common practice, no published source.
           fundamental(5),
@@ -147,7 +147,7 @@ function build(family: Family): SpecFormValues {
           "The three partials of the series are optional, at 2, 3 and 4 × the strike note with ±75 cents: a uniform tube puts the highest of them a little sharp of 4× (Euler–Bernoulli beam theory gives about 4.17× half the lowest of them) — typical starting values, confirm with your own tubes.",
           STARTING_POINT_NOTE,
           STEEL_COEFFICIENT_NOTE,
-        ].join(" "),
+        ].join("\n"),
         [
           // ±5 cents on the strike note: common practice for chimes, no published source.
           { label: "Strike note", isFundamental: true, targetKind: "strike_note", targetNote: "C5", targetHz: noteNameHz("C5", A4_HZ), toleranceCents: 5, required: true },
@@ -167,7 +167,7 @@ function build(family: Family): SpecFormValues {
           MASTER_NOTE,
           STARTING_POINT_NOTE,
           NON_STEEL_COEFFICIENT_NOTE,
-        ].join(" "),
+        ].join("\n"),
         BELL_PARTIAL_RATIOS.map((b) => (b.label === "Prime" ? fundamental(b.toleranceCents, "Prime") : ratioPartial(b.label, b.ratio, b.toleranceCents, b.required))),
       );
     case "bowl":
@@ -180,7 +180,7 @@ function build(family: Family): SpecFormValues {
           PITCH_NOTE,
           STARTING_POINT_NOTE,
           NON_STEEL_COEFFICIENT_NOTE,
-        ].join(" "),
+        ].join("\n"),
         // ±10 cents for bowls: common practice, no published source.
         [fundamental(10)],
       );
@@ -188,7 +188,7 @@ function build(family: Family): SpecFormValues {
       return base(
         family,
         "Tuned part",
-        ["Add the partials your design needs, as ratios to the fundamental, in Hz or by note.", PITCH_NOTE, MASTER_NOTE, STARTING_POINT_NOTE, STEEL_COEFFICIENT_NOTE].join(" "),
+        ["Add the partials your design needs, as ratios to the fundamental, in Hz or by note.", PITCH_NOTE, MASTER_NOTE, STARTING_POINT_NOTE, STEEL_COEFFICIENT_NOTE].join("\n"),
         // ±10 cents: common practice, no published source.
         [fundamental(10)],
       );

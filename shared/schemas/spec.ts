@@ -20,6 +20,8 @@ export const familyLabels: Record<Family, string> = {
 
 export const decisionRules = ["simple", "guarded"] as const;
 export type DecisionRule = (typeof decisionRules)[number];
+/** Short names, for a select that must fit a phone; decisionRuleLabels says what each means. */
+export const decisionRuleShortLabels: Record<DecisionRule, string> = { simple: "Simple acceptance", guarded: "Guarded acceptance" };
 export const decisionRuleLabels: Record<DecisionRule, string> = {
   simple: "Simple acceptance (the measured value alone decides)",
   guarded: "Guarded acceptance (ILAC-G8: the expanded uncertainty U, k = 2, must fit inside the tolerance)",
@@ -47,9 +49,9 @@ const optionalPositive = (what: string) => positive(what).nullable().optional().
 export const targetKinds = ["absolute", "ratio", "strike_note"] as const;
 export type TargetKind = (typeof targetKinds)[number];
 export const targetKindLabels: Record<TargetKind, string> = {
-  absolute: "Frequency (Hz or note)",
+  absolute: "Hz or note",
   ratio: "Ratio to f₁",
-  strike_note: "Strike note (heard pitch)",
+  strike_note: "Strike note",
 };
 
 const noteName = z

@@ -81,8 +81,9 @@ export async function layoutProblems(page: Page): Promise<ScreenProblem[]> {
       const cs = getComputedStyle(el);
       ctx.font = `${cs.fontWeight} ${cs.fontSize} ${cs.fontFamily}`;
       const text = ctx.measureText(option.text).width;
-      // Room inside the box: its width less the padding and the drop-down arrow (about 20 px).
-      const room = el.clientWidth - parseFloat(cs.paddingLeft) - Math.max(parseFloat(cs.paddingRight), 20);
+      // Room inside the box: its width less both paddings and, for a native select, its drop-down arrow (about 20 px beside the padding).
+      const arrow = cs.appearance === "none" ? 0 : 20;
+      const room = el.clientWidth - parseFloat(cs.paddingLeft) - parseFloat(cs.paddingRight) - arrow;
       if (text > room + 1) problems.push({ kind: "choice cut off", detail: `select "${el.getAttribute("aria-label") ?? el.labels?.[0]?.textContent ?? el.name}" shows "${option.text}" (${Math.round(text)} px) in ${Math.round(room)} px` });
     }
 

@@ -76,7 +76,7 @@ export function LedgerTable({ rows, unitHref, toleranceCents, referenceTemperatu
       }),
       column.accessor("fundamentalHz", {
         // Say so when the frequencies shown were corrected to the spec's reference temperature.
-        header: corrected ? `Fundamental at ${referenceTemperatureC} °C (Hz)` : "Fundamental (Hz)",
+        header: corrected ? `Fundamental at ${referenceTemperatureC}\u00a0°C (Hz)` : "Fundamental (Hz)",
         cell: (info) => formatNumber(info.getValue(), 3),
         meta: { numeric: true },
       }),
@@ -143,18 +143,21 @@ export function LedgerTable({ rows, unitHref, toleranceCents, referenceTemperatu
                 </Link>
                 <VerdictBadge verdict={row.verdict} />
               </div>
-              <dl className="mt-1.5 grid grid-cols-2 gap-x-3 gap-y-1 text-caption">
+              <dl className="mt-1 flex flex-wrap gap-x-5 gap-y-1 text-caption">
                 <CardFact label="Deviation">
                   <span className={clsx("text-body tabular-nums", outside(row.deviationCents) && "font-semibold text-rust-700")}>{formatCents(row.deviationCents)}</span>
                 </CardFact>
                 <CardFact label="T60">
                   <span className="text-body tabular-nums">{row.t60S != null ? `${formatNumber(row.t60S, 1)} s` : "—"}</span>
                 </CardFact>
-                <CardFact label="Disposition" wide>
-                  <Disposition row={row} />
-                </CardFact>
+                {/* A disposition only where one is made or awaited; a unit within tolerance needs none. */}
+                {row.disposition || (row.open && row.verdict && row.verdict !== "within_tolerance") ? (
+                  <CardFact label="Disposition">
+                    <Disposition row={row} />
+                  </CardFact>
+                ) : null}
                 {row.pendingStrikes > 0 ? (
-                  <CardFact label="Strikes" wide>
+                  <CardFact label="Strikes">
                     <Strikes row={row} />
                   </CardFact>
                 ) : null}
@@ -247,9 +250,9 @@ function Strikes({ row }: { row: LedgerRow }) {
   );
 }
 
-function CardFact({ label, children, wide = false }: { label: string; children: ReactNode; wide?: boolean }) {
+function CardFact({ label, children }: { label: string; children: ReactNode }) {
   return (
-    <div className={clsx("flex min-w-0 flex-col", wide && "col-span-2")}>
+    <div className="flex min-w-0 items-baseline gap-1.5">
       <dt className="text-ink-faint">{label}</dt>
       <dd className="min-w-0">{children}</dd>
     </div>

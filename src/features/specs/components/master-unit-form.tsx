@@ -3,7 +3,7 @@
  * its measured partials become the draft's targets, which the editor below then shows for review.
  */
 import { SERIES_WORDS } from "@shared/strike-note";
-import { useState } from "react";
+import { useRef, useState } from "react";
 import { familyLabels, families, type Family } from "@shared/schemas/spec";
 import { MAX_MASTER_PARTIALS, type MasterDraftResponse } from "@shared/schemas/master";
 import { Alert } from "@/components/ui/alert";
@@ -16,6 +16,7 @@ export function MasterUnitForm({ family: initialFamily, onDraft }: { family: Fam
   const draft = useCreateMasterDraft();
   const [family, setFamily] = useState<Family>(initialFamily);
   const [file, setFile] = useState<File | null>(null);
+  const picker = useRef<HTMLInputElement>(null);
   const [fields, setFields] = useState({ temperatureC: "", fundamentalToleranceCents: "5", partialToleranceCents: "15", maxPartials: "6" });
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [message, setMessage] = useState<string | null>(null);
@@ -57,15 +58,27 @@ export function MasterUnitForm({ family: initialFamily, onDraft }: { family: Fam
             </option>
           ))}
         </SelectField>
-        <InputField
-          label="Master recording (WAV)"
-          type="file"
-          accept=".wav,audio/wav,audio/x-wav,audio/wave"
-          className="py-2"
-          onChange={(event) => setFile(event.target.files?.[0] ?? null)}
-          error={errors.audio}
-          hint={file ? `${file.name}, ${(file.size / 1024).toFixed(0)} KiB` : "A few seconds of one strike and its ring."}
-        />
+        <div className="flex flex-col gap-1.5">
+          <span className="text-caption font-semibold text-ink">Master recording (WAV)</span>
+          <input
+            ref={picker}
+            type="file"
+            accept=".wav,audio/wav,audio/x-wav,audio/wave"
+            className="sr-only"
+            aria-label="Master recording (WAV)"
+            onChange={(event) => {
+              setFile(event.target.files?.[0] ?? null);
+              event.target.value = "";
+            }}
+          />
+          <div className="flex flex-wrap items-center gap-3">
+            <Button variant="secondary" onClick={() => picker.current?.click()}>
+              Choose the recording…
+            </Button>
+            <span className="min-w-0 text-caption text-ink-soft [overflow-wrap:anywhere]">{file ? `${file.name}, ${(file.size / 1024).toFixed(0)} KiB` : "A few seconds of one strike and its ring."}</span>
+          </div>
+          {errors.audio ? <p className="text-caption font-medium text-rust-700">{errors.audio}</p> : null}
+        </div>
         <InputField label="Temperature of the master (°C, optional)" type="number" step="any" inputMode="decimal" hint="Its frequencies are corrected to the reference temperature." {...field("temperatureC")} />
         <InputField label="Partials to take (most)" type="number" step="1" min={1} max={MAX_MASTER_PARTIALS} inputMode="numeric" hint="The strongest ones, at most 40 dB below the loudest." {...field("maxPartials")} />
         <InputField label="Tolerance on the fundamental (± cents)" type="number" step="any" inputMode="decimal" {...field("fundamentalToleranceCents")} />

@@ -11,6 +11,7 @@ import { useFieldArray, useForm, type FieldError, type UseFormReturn } from "rea
 import { A4_HZ } from "@shared/physics";
 import {
   decisionRuleLabels,
+  decisionRuleShortLabels,
   decisionRules,
   familyLabels,
   families,
@@ -181,10 +182,10 @@ export function SpecForm({ defaultValues, mode, familyLocked, onFamilyChange, on
           {...form.register("strikesRequired", { setValueAs: requiredNumber })}
         />
         <div className="sm:col-span-2">
-          <SelectField label="Decision rule" error={errors.decisionRule?.message} {...form.register("decisionRule")}>
+          <SelectField label="Decision rule" hint={decisionRuleLabels[form.watch("decisionRule") ?? "simple"]} error={errors.decisionRule?.message} {...form.register("decisionRule")}>
             {decisionRules.map((rule) => (
               <option key={rule} value={rule}>
-                {decisionRuleLabels[rule]}
+                {decisionRuleShortLabels[rule]}
               </option>
             ))}
           </SelectField>
@@ -248,7 +249,7 @@ export function SpecForm({ defaultValues, mode, familyLocked, onFamilyChange, on
                 ) : (
                   <TargetInput form={form} index={index} referencePitchHz={referencePitch} strikeNote={kind === "strike_note"} error={rowErrors?.targetNote?.message ?? rowErrors?.targetHz?.message} />
                 )}
-                <div className="grid grid-cols-[minmax(0,1fr)_6.5rem] items-start gap-2">
+                <div className="grid grid-cols-[minmax(0,1fr)_8.5rem] items-start gap-2 sm:col-span-2">
                   <InputField
                     label={`Tolerance (± ${toleranceUnitLabels[unit]})`}
                     type="number"

@@ -48,7 +48,7 @@ export function EvaluationPanel({ evaluation, pending, referenceTemperatureC = 2
           <caption className="sr-only">Requirements as measured</caption>
           <thead className="border-b border-line-strong text-ink-soft">
             <tr>
-              {["Partial", "Result", evaluation.temperatureCorrected ? `Measured at ${referenceTemperatureC} °C ± U (k = 2)` : "Measured ± U (k = 2)", "Target", "Deviation ± U (k = 2)", "T60 ± U (k = 2)", "Q", "Beat"].map((h, i) => (
+              {["Partial", "Result", evaluation.temperatureCorrected ? `Measured at ${referenceTemperatureC}\u00a0°C ± U (k\u00a0=\u00a02)` : "Measured ± U (k = 2)", "Target", "Deviation ± U (k = 2)", "T60 ± U (k = 2)", "Q", "Beat"].map((h, i) => (
                 <th key={h} scope="col" className={clsx("py-2 pr-3 align-bottom font-semibold", i > 1 && "text-right")}>
                   {h}
                 </th>

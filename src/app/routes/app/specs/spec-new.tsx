@@ -65,7 +65,7 @@ export function SpecNewRoute() {
             {start === "template" ? (
               <>
                 <h3 className="text-lead font-semibold">Template: {familyLabels[family]}</h3>
-                <p className="mt-2 max-w-prose text-ink-soft">{template.description}</p>
+                <p className="mt-2 max-w-prose whitespace-pre-line text-ink-soft">{template.description}</p>
                 <p className="mt-2 text-caption text-ink-faint">Choose another product family in the editor below to load its template.</p>
               </>
             ) : start === "master" ? (
