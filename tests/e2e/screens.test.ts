@@ -145,6 +145,23 @@ describe("every screen reads at 390 px and 1280 px, signed in and out", () => {
     await context.clearCookies();
   }, 300_000);
 
+  it("the check itself finds a page that scrolls sideways, a box that cuts text off, a select cut short and overlapping labels", async () => {
+    const { page } = e2e.browser;
+    await page.setViewportSize({ width: 390, height: 900 });
+    await page.setContent(`
+      <div style="width: 600px">wide</div>
+      <p style="width: 80px; overflow: hidden; white-space: nowrap">a sentence far longer than its box</p>
+      <select style="width: 90px"><option>An option much longer than the box</option></select>
+      <div class="tl-spectrum" style="position: relative; width: 300px; height: 40px">
+        <span class="tl-marker" style="position: absolute; left: 10px; width: 60px">Prime</span>
+        <span class="tl-marker" style="position: absolute; left: 40px; width: 60px">Tierce</span>
+      </div>
+      <span class="sr-only" style="position: absolute; width: 1px; height: 1px; overflow: hidden; clip: rect(0, 0, 0, 0)">screen-reader text is not a problem</span>`);
+    const kinds = (await layoutProblems(page)).map((p) => p.kind);
+    expect(kinds).toEqual(expect.arrayContaining(["page scrolls sideways", "content cut off", "choice cut off", "labels overlap"]));
+    expect(kinds.filter((k) => k === "content cut off")).toHaveLength(1);
+  });
+
   for (const who of ["signed out", "owner", "other"] as const) {
     it(`${who}: every screen at ${WIDTHS.join(" px and ")} px`, { timeout: 600_000 }, async () => {
       const { page, context } = e2e.browser;
