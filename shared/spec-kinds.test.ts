@@ -10,22 +10,9 @@ import { describe, expect, it } from "vitest";
 import type { Partial as MeasuredPartial } from "./schemas/analysis.ts";
 import { specInputSchema, type SpecPartialInput } from "./schemas/spec.ts";
 import { evaluateUnit, matchStrike } from "./evaluation.ts";
+import { measuredPartial } from "../tests/support/measured-partial.ts";
 
-const partial = (frequencyHz: number, o: Partial<MeasuredPartial> = {}): MeasuredPartial => ({
-  frequencyHz,
-  frequencyUncertaintyHz: 0.001,
-  amplitudeDb: -20,
-  tauS: 2,
-  tauUncertaintyS: 0.001,
-  t60S: 2 * Math.log(1000),
-  q: Math.PI * frequencyHz * 2,
-  fitR2: 0.99,
-  beatHz: null,
-  fitStartS: 0.1,
-  fitEndS: 4,
-  tauUnreliable: false,
-  ...o,
-});
+const partial = measuredPartial;
 const parse = (partials: SpecPartialInput[], o: Record<string, unknown> = {}) => specInputSchema.parse({ name: "T", family: "tube", partials, ...o });
 const issues = (input: unknown) => {
   const r = specInputSchema.safeParse(input);
