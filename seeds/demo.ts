@@ -17,7 +17,7 @@ import type { RoleName } from "../shared/permissions.ts";
 import { specInputSchema } from "../shared/schemas/spec.ts";
 import { specTemplate } from "../shared/spec-templates.ts";
 import { seedDemoBothWaysStrikes, seedDemoModeLists } from "./demo-modes.ts";
-import { prng, synthReferenceToneWav, synthStrikeWav } from "./synth.ts";
+import { bellStrikeWav, prng, synthReferenceToneWav, synthStrikeWav, tubeStrikeWav } from "./synth.ts";
 
 export const DEMO_PASSWORD = "tinelog-demo";
 
@@ -73,6 +73,7 @@ export async function seedDemo(deps: AppDeps): Promise<DemoIds | null> {
   const ids = { workshopId, otherWorkshopId, users };
   const instruments = seedDemoInstruments(deps, ids);
   seedDemoLedger(deps, ids, { strikes: deps.env.DEMO_STRIKES, instruments });
+  seedChimeLedger(deps, ids, { strikes: deps.env.DEMO_STRIKES });
   return ids;
 }
 
@@ -81,7 +82,7 @@ export async function seedDemo(deps: AppDeps): Promise<DemoIds | null> {
  * tolerance, waiting for QA's disposition), and one batch still to be measured.
  */
 function seedDemoLedger(deps: AppDeps, ids: DemoIds, opts: { strikes: boolean; instruments: DemoInstruments }) {
-  const { db, storage } = deps;
+  const { db } = deps;
   const qa = { workshopId: ids.workshopId, userId: ids.users["qa@example.com"] };
   const maker = { workshopId: ids.workshopId, userId: ids.users["maker@example.com"] };
   const template = specTemplate("tuning_fork");
@@ -91,7 +92,7 @@ function seedDemoLedger(deps: AppDeps, ids: DemoIds, opts: { strikes: boolean; i
     specInputSchema.parse({
       ...template,
       name: "BTW-440 concert fork, steel",
-      description: "Brightwater's A4 concert fork (invented demo product). " + (template.description ?? ""),
+      description: "Brightwater's A4 concert fork (invented demo product).\n" + (template.description ?? ""),
       lengthMm: 80,
       strikesRequired: 1,
       partials: [
@@ -124,23 +125,56 @@ function seedDemoLedger(deps: AppDeps, ids: DemoIds, opts: { strikes: boolean; i
       ],
       noise: 2e-4,
     });
-    const temp = path.join(storage.incoming, `${randomUUID()}.part`);
-    writeFileSync(temp, wav);
-    const fileKey = storage.keep(temp, ids.workshopId);
-    insertStrike(db, maker, {
-      unitId: u.id,
-      originalName: `${u.serial}-strike-1.wav`,
-      sha256: createHash("sha256").update(wav).digest("hex"),
-      fileKey,
-      sizeBytes: wav.length,
-      format: { sampleRate: 48000, channels: 1, bitsPerSample: 16, encoding: "pcm", durationS: 4 },
-      temperatureC: 21 + Math.round(rand() * 20) / 10,
-      support: "hand",
-      recorderId: recorder.id,
-      thermometerId: opts.instruments.thermometerId,
-    });
+    storeDemoStrike(deps, maker, u, wav, { durationS: 4, temperatureC: 21 + Math.round(rand() * 20) / 10, support: "hand", recorderId: recorder.id, thermometerId: opts.instruments.thermometerId });
   });
   seedDemoBothWaysStrikes(deps, maker, measured.id);
+  deps.queue.notify();
+}
+
+/** Keeps a synthesised WAV as a stored recording of `u` and queues it for analysis, as an upload would. */
+function storeDemoStrike(deps: AppDeps, actor: { workshopId: string; userId: string }, u: { id: string; serial: string }, wav: Uint8Array, conditions: { durationS: number; temperatureC: number; support: "hand" | "suspended" | "stand"; recorderId?: string; thermometerId?: string }) {
+  const { db, storage } = deps;
+  const temp = path.join(storage.incoming, `${randomUUID()}.part`);
+  writeFileSync(temp, wav);
+  const fileKey = storage.keep(temp, actor.workshopId);
+  insertStrike(db, actor, {
+    unitId: u.id,
+    originalName: `${u.serial}-strike-1.wav`,
+    sha256: createHash("sha256").update(wav).digest("hex"),
+    fileKey,
+    sizeBytes: wav.length,
+    format: { sampleRate: 48000, channels: 1, bitsPerSample: 16, encoding: "pcm", durationS: conditions.durationS },
+    temperatureC: conditions.temperatureC,
+    support: conditions.support,
+    recorderId: conditions.recorderId ?? null,
+    thermometerId: conditions.thermometerId ?? null,
+  });
+}
+
+/**
+ * The second invented workshop makes chimes and handbells: a chime tube specified by its strike
+ * note and a handbell by its named partials, each with a small measured batch (one unit out).
+ */
+function seedChimeLedger(deps: AppDeps, ids: DemoIds, opts: { strikes: boolean }) {
+  const { db } = deps;
+  const owner = { workshopId: ids.otherWorkshopId, userId: ids.users["other@example.com"] };
+  const tubeTemplate = specTemplate("tube");
+  const tubeSpec = createSpec(db, owner, specInputSchema.parse({ ...tubeTemplate, name: "FHC chime tube C5, aluminium", description: "Fernhollow's C5 garden chime tube (invented demo product).\n" + (tubeTemplate.description ?? ""), strikesRequired: 1 }));
+  const bellTemplate = specTemplate("handbell");
+  const bellSpec = createSpec(db, owner, specInputSchema.parse({ ...bellTemplate, name: "FHC handbell A4, bronze", description: "Fernhollow's A4 handbell (invented demo product).\n" + (bellTemplate.description ?? ""), strikesRequired: 1 }));
+  const tubes = createBatch(db, owner, { code: "FHC-T-07", specId: tubeSpec.id, quantity: 3, range: { from: "CT-0701", to: "CT-0703" }, notes: "Garden chimes, tube stock lot 3 (demo)." });
+  const bells = createBatch(db, owner, { code: "FHC-B-02", specId: bellSpec.id, quantity: 3, range: { from: "HB-0201", to: "HB-0203" }, notes: "Handbells for a school set (demo)." });
+  if (!opts.strikes) return;
+  const c5 = 440 * 2 ** (3 / 12);
+  // Invented voicings: the second tube cut 14 cents short (sharp), the third bell's tierce 30 cents sharp.
+  const tubeOffsets = [1, 14, -2];
+  db.select().from(unit).where(eq(unit.batchId, tubes.id)).all().sort((a, b) => a.position - b.position).forEach((u, i) => {
+    storeDemoStrike(deps, owner, u, tubeStrikeWav({ strikeNoteHz: c5, seed: 700 + i, offsetCents: tubeOffsets[i], durationS: 4 }), { durationS: 4, temperatureC: 19.5, support: "suspended" });
+  });
+  const bellOffsets = [{}, { prime: -2, nominal: 3 }, { tierce: 30 }];
+  db.select().from(unit).where(eq(unit.batchId, bells.id)).all().sort((a, b) => a.position - b.position).forEach((u, i) => {
+    storeDemoStrike(deps, owner, u, bellStrikeWav({ primeHz: 440, seed: 200 + i, offsets: bellOffsets[i], durationS: 4 }), { durationS: 4, temperatureC: 19.5, support: "hand" });
+  });
   deps.queue.notify();
 }
 

@@ -43,7 +43,7 @@ export type AppDeps = {
   logger: Logger;
   storage: Storage;
   queue: AnalysisQueue;
-  /** The analysis workers, for work answered within a request (reference tones of a calibration). */
+  /** The analysis workers, for work answered within a request (reference tones of a calibration, a master unit). */
   pool: AnalysisPool;
   certificates: CertificateDeps;
   readCache: ReadCache;
@@ -67,7 +67,8 @@ export function createApp(deps: AppDeps) {
           "img-src": ["'self'", "data:", "blob:"],
           "media-src": ["'self'", "blob:"],
           "worker-src": ["'self'", "blob:"],
-          "frame-src": ["'self'"],
+          // The certificate preview is a PDF held in a blob: URL, shown in a frame.
+          "frame-src": ["'self'", "blob:"],
           // Only ask browsers to upgrade sub-resources when we really are on https.
           "upgrade-insecure-requests": deps.env.baseUrl.startsWith("https://") ? [] : null,
         },

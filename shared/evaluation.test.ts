@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
 import type { Partial as MeasuredPartial } from "./schemas/analysis.ts";
+import { measuredPartial } from "../tests/support/measured-partial.ts";
 import { specInputSchema, type SpecInput, type SpecPartialInput } from "./schemas/spec.ts";
 import {
   EvaluationInputError,
@@ -31,24 +32,7 @@ const uHzForExpandedCents = (f: number, U: number) => (U / 2) * (f * Math.LN2) /
 const toCents = (f: number, dfHz: number) => (1200 / Math.LN2) * (dfHz / f);
 
 /** Builds a measured partial with consistent T60 and Q from τ. */
-function partial(frequencyHz: number, o: Partial<MeasuredPartial> = {}): MeasuredPartial {
-  const tauS = o.tauS ?? 2;
-  return {
-    frequencyHz,
-    frequencyUncertaintyHz: 0.001,
-    amplitudeDb: -20,
-    tauS,
-    tauUncertaintyS: 0.001,
-    t60S: tauS * Math.log(1000),
-    q: Math.PI * frequencyHz * tauS,
-    fitR2: 0.99,
-    beatHz: null,
-    fitStartS: 0.1,
-    fitEndS: 4,
-    tauUnreliable: false,
-    ...o,
-  };
-}
+const partial = measuredPartial;
 
 let strikeCounter = 0;
 function strike(partials: MeasuredPartial[], temperatureC: number | null = null): EvaluationStrikeInput {
@@ -458,7 +442,7 @@ describe("tuningGuidance", () => {
     expect(tuningGuidance(spec([fundamental()], { family: "free_bar" }), sharp)!.remedy).toContain("underside of the bar at its middle");
     expect(tuningGuidance(spec([fundamental()], { family: "tube", lengthMm: 500 }), line)!.remedy).toContain("Shorten the tube");
     const bell = tuningGuidance(spec([fundamental()], { family: "handbell", lengthMm: 100 }), sharp)!;
-    expect(bell.remedy).toContain("lowers most partials");
+    expect(bell.remedy).toContain("Removing metal from the inside lowers the bell");
     expect(bell.remedy).toContain("workshop's own tuning practice");
     expect(bell.estimate).toBeNull();
     expect(tuningGuidance(spec([fundamental()], { family: "bowl" }), line)!.remedy).toContain("where metal is removed decides");

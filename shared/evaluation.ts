@@ -20,6 +20,7 @@ import type { BudgetComponent, UncertaintyBudget } from "./schemas/instrument.ts
 import type { DecisionRule, SpecInput, SpecPartial } from "./schemas/spec.ts";
 import { LN_1000, cents, correctToReferenceTemperature } from "./physics.ts";
 import { correctForClock, twoSignificant, type InstrumentCorrection } from "./traceability.ts";
+import { findStrikeNote, strikeNoteAsPartial, type StrikeNote } from "./strike-note.ts";
 
 /** One analysed strike segment of a recording (a file may hold several strikes). */
 export type EvaluationStrikeInput = {
@@ -148,8 +149,8 @@ function checkSpec(spec: SpecInput): void {
     if (!(p.toleranceCents > 0)) {
       throw new EvaluationInputError(`Partial "${p.label}" has a tolerance of ${p.toleranceCents} cents; the tolerance must be greater than 0 cents.`);
     }
-    if (p.targetKind === "absolute" && !(p.targetHz != null && p.targetHz > 0)) {
-      throw new EvaluationInputError(`Partial "${p.label}" has no target frequency; give its target in Hz.`);
+    if (p.targetKind !== "ratio" && !(p.targetHz != null && p.targetHz > 0)) {
+      throw new EvaluationInputError(`Partial "${p.label}" has no target frequency; give its target in Hz or as a note.`);
     }
     if (p.targetKind === "ratio") {
       if (!(p.ratio != null && p.ratio > 0)) throw new EvaluationInputError(`Partial "${p.label}" has no target ratio; give its ratio to the fundamental.`);
@@ -177,35 +178,52 @@ function pickCandidate(partials: MeasuredPartial[], expectedHz: number, windowCe
   return best;
 }
 
+/** What one strike's partials were matched to: per spec partial (same order) a partial index or a strike note. */
+export type StrikeMatch = {
+  /** Index of the measured partial matched to each spec partial, or null (always null for a strike note). */
+  indices: (number | null)[];
+  /** The strike note read for each strike-note requirement, or null. */
+  strikeNotes: (StrikeNote | null)[];
+};
+
 /**
- * For each spec partial (same order), the index of the measured partial matched to it, or null.
+ * Matches a strike's measured partials to the spec's requirements.
  * The fundamental first: the measured partial closest in cents to its target within
- * {@link matchWindowCents}, near-ties ({@link MATCH_TIE_CENTS}) to the stronger. Then every other
- * requirement at once, closest pair first: a ratio requirement is expected at ratio × the measured
- * fundamental (ratio × the fundamental's target when the fundamental was not found), an absolute
- * one at its target Hz. A measured partial is used at most once.
+ * {@link matchWindowCents}, near-ties ({@link MATCH_TIE_CENTS}) to the stronger — or, for a strike
+ * note, the reading of the 2 : 3 : 4 series nearest its target (shared/strike-note.ts). Then every
+ * other requirement at once, closest pair first: a ratio requirement is expected at ratio × the
+ * measured fundamental (ratio × the fundamental's target when the fundamental was not found), an
+ * absolute one at its target Hz. A measured partial is used at most once; a strike note reads
+ * partials without using them up, so they can carry their own requirements too.
  */
-export function matchPartials(spec: SpecInput, partials: MeasuredPartial[]): (number | null)[] {
+export function matchStrike(spec: SpecInput, partials: MeasuredPartial[]): StrikeMatch {
   checkSpec(spec);
-  const result: (number | null)[] = spec.partials.map(() => null);
+  const indices: (number | null)[] = spec.partials.map(() => null);
+  const strikeNotes: (StrikeNote | null)[] = spec.partials.map(() => null);
   const used = new Set<number>();
   const fi = fundamentalIndex(spec);
   let fundamentalHz: number | null = null;
+  spec.partials.forEach((p, i) => {
+    if (p.targetKind === "strike_note") strikeNotes[i] = findStrikeNote(partials, p.targetHz!, matchWindowCents(p.toleranceCents));
+  });
   if (fi >= 0) {
     const f = spec.partials[fi];
-    const hit = pickCandidate(partials, f.targetHz!, matchWindowCents(f.toleranceCents), used);
-    if (hit) {
-      result[fi] = hit.index;
-      used.add(hit.index);
-      fundamentalHz = partials[hit.index].frequencyHz;
+    if (f.targetKind === "strike_note") fundamentalHz = strikeNotes[fi]?.frequencyHz ?? null;
+    else {
+      const hit = pickCandidate(partials, f.targetHz!, matchWindowCents(f.toleranceCents), used);
+      if (hit) {
+        indices[fi] = hit.index;
+        used.add(hit.index);
+        fundamentalHz = partials[hit.index].frequencyHz;
+      }
     }
   }
   const expected = spec.partials.map((p, i) => {
-    if (i === fi) return null;
+    if (i === fi || p.targetKind === "strike_note") return null;
     if (p.targetKind === "absolute") return p.targetHz!;
     return p.ratio! * (fundamentalHz ?? spec.partials[fi].targetHz!);
   });
-  const open = new Set(spec.partials.map((_, i) => i).filter((i) => i !== fi));
+  const open = new Set(spec.partials.map((_, i) => i).filter((i) => expected[i] !== null));
   // Closest pair first, so two requirements never fight over a partial in spec order.
   while (open.size > 0) {
     let bestReq = -1;
@@ -218,11 +236,16 @@ export function matchPartials(spec: SpecInput, partials: MeasuredPartial[]): (nu
       }
     }
     if (bestHit === null) break;
-    result[bestReq] = bestHit.index;
+    indices[bestReq] = bestHit.index;
     used.add(bestHit.index);
     open.delete(bestReq);
   }
-  return result;
+  return { indices, strikeNotes };
+}
+
+/** For each spec partial (same order), the index of the measured partial matched to it, or null. See {@link matchStrike}. */
+export function matchPartials(spec: SpecInput, partials: MeasuredPartial[]): (number | null)[] {
+  return matchStrike(spec, partials).indices;
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -340,11 +363,12 @@ function requireFinite(strike: EvaluationStrikeInput, p: MeasuredPartial, field:
   return v;
 }
 
-function observe(spec: SpecInput, strikes: EvaluationStrikeInput[], matches: (number | null)[][], req: number, opts: EvaluationOptions): (Observation | null)[] {
+function observe(spec: SpecInput, strikes: EvaluationStrikeInput[], matches: StrikeMatch[], req: number, opts: EvaluationOptions): (Observation | null)[] {
   return strikes.map((s, strike) => {
-    const idx = matches[strike][req];
-    if (idx === null) return null;
-    const partial = s.partials[idx];
+    const idx = matches[strike].indices[req];
+    const note = matches[strike].strikeNotes[req];
+    if (idx === null && note === null) return null;
+    const partial = note ? strikeNoteAsPartial(s.partials, note) : s.partials[idx!];
     const f = requireFinite(s, partial, "frequencyHz");
     const u = Math.abs(requireFinite(s, partial, "frequencyUncertaintyHz"));
     return { strike, partial, ...correctedFrequency(spec, s, f, u, opts) };
@@ -472,7 +496,7 @@ function emptyLine(p: SpecPartial): Line {
     spreadCents: null,
     uncertaintyHz: null,
     expandedUncertaintyHz: null,
-    targetHz: p.targetKind === "absolute" ? p.targetHz : null,
+    targetHz: p.targetKind !== "ratio" ? p.targetHz : null,
     targetRatio: p.targetKind === "ratio" ? p.ratio : null,
     measuredRatio: null,
     toleranceCents: p.toleranceCents,
@@ -517,9 +541,12 @@ function evaluateLine(
   if (obs.length === 0) {
     line.pitch = "not_found";
     line.result = p.required ? "fail" : "not_found";
-    line.note = p.required
-      ? `Not found in any strike (searched ±${c1(matchWindowCents(p.toleranceCents))} cents around the target). Strike the unit again where this partial sounds, or check the spec's target.`
-      : "Not found; optional, so it does not affect the verdict.";
+    const searched = `±${c1(matchWindowCents(p.toleranceCents))} cents around the target`;
+    line.note = !p.required
+      ? "Not found; optional, so it does not affect the verdict."
+      : p.targetKind === "strike_note"
+        ? `No strike note found in any strike: no three partials stand near 2 : 3 : 4 of a pitch within ${searched}. Strike the tube again, nearer its end and a little harder, or check the spec's target.`
+        : `Not found in any strike (searched ${searched}). Strike the unit again where this partial sounds, or check the spec's target.`;
     return line;
   }
 
@@ -531,7 +558,7 @@ function evaluateLine(
   line.expandedUncertaintyHz = freq.expandedHz;
   const fundamentalHz = fundamental?.line.measuredHz ?? null;
 
-  if (p.targetKind === "absolute") {
+  if (p.targetKind !== "ratio") {
     const target = p.targetHz!;
     line.deviationCents = cents(freq.measuredHz, target);
     line.deviationUncertaintyCents = (CENTS_PER_RELATIVE * freq.expandedHz) / freq.measuredHz;
@@ -666,7 +693,7 @@ export function evaluateUnit(spec: SpecInput, strikes: EvaluationStrikeInput[], 
       throw new EvaluationInputError(`Strike ${s.strikeId} (segment ${s.segment}) has temperature ${String(s.temperatureC)}; give the temperature in °C, or leave it empty.`);
     }
   });
-  const matches = strikes.map((s) => matchPartials(spec, s.partials));
+  const matches = strikes.map((s) => matchStrike(spec, s.partials));
   const fi = fundamentalIndex(spec);
   const observations = spec.partials.map((_, i) => observe(spec, strikes, matches, i, opts));
   const lines: Line[] = new Array(spec.partials.length);
@@ -701,11 +728,11 @@ export function evaluateUnit(spec: SpecInput, strikes: EvaluationStrikeInput[], 
   }
 
   const fundamentalLine = fi >= 0 ? lines[fi] : null;
-  const guidance = fundamentalLine ? tuningGuidance(spec, fundamentalLine) : null;
+  const guidance = tuningGuidance(spec, fundamentalLine, lines);
 
   const labels: StrikeLabels[] = strikes.map((s, k) => {
     const map: Record<number, string> = {};
-    matches[k].forEach((idx, i) => {
+    matches[k].indices.forEach((idx, i) => {
       if (idx !== null) map[idx] = spec.partials[i].label;
     });
     return { strikeId: s.strikeId, segment: s.segment, labels: map };
@@ -746,8 +773,8 @@ const REMEDIES: Record<SpecInput["family"], Record<TuningGuidance["direction"], 
       "Shortening only raises the pitch, so a tube that rings too high cannot be cut down to pitch. Follow the workshop's practice for this (added end mass lowers it a little), or make a new tube.",
   },
   handbell: {
-    raise: "Removing metal lowers most partials of a bell, so raising the pitch needs the workshop's own method for this design; where metal is removed decides which partials move most.",
-    lower: "Removing metal lowers most partials of a bell; where it is removed decides which partials move most. Follow the workshop's own tuning practice for this design.",
+    raise: "Removing metal lowers a bell's partials, so a flat bell is not brought up by thinning it; taking metal off the lip edge (a smaller mouth) raises the whole bell a little. Follow the workshop's own tuning practice for this design.",
+    lower: "Removing metal from the inside lowers the bell; where it is taken decides which partials move most (see each partial below). Follow the workshop's own tuning practice for this design.",
   },
   bowl: {
     raise: "Removing metal lowers most partials of a bowl, so raising the pitch needs the workshop's own method for this design; where metal is removed decides which partials move most.",
@@ -768,19 +795,59 @@ const CLINICAL_CAUTION =
 const BEAM_FAMILIES: SpecInput["family"][] = ["tuning_fork", "free_bar", "tube", "other"];
 
 /**
- * Tuning guidance for a fundamental out of tolerance (pitch check failed), or null otherwise:
- * which way the pitch must move and by how many cents, the usual remedy of the family, and — where
+ * Where the bell trade takes metal from the inside of a bell to lower each named partial, as a
+ * direction only: the hum high toward the shoulder, the prime at the waist, the tierce low in the
+ * waist above the sound bow, the nominal at the sound bow near the lip; the quint follows the others.
+ */
+const BELL_PARTIAL_PLACES: { match: RegExp; name: string; place: string | null }[] = [
+  { match: /\bhum\b/i, name: "hum", place: "from the inside, high up toward the shoulder" },
+  { match: /\b(prime|fundamental|strike)\b/i, name: "prime", place: "from the inside at the waist, about halfway up" },
+  { match: /\btierce\b/i, name: "tierce", place: "from the inside, low in the waist just above the sound bow" },
+  { match: /\bquint\b/i, name: "quint", place: null },
+  { match: /\bnominal\b/i, name: "nominal", place: "from the inside at the sound bow, near the lip" },
+];
+
+/** The trade's direction for one named partial of a bell out of tolerance, or null for a name it does not know. */
+function bellPartialRemedy(label: string, direction: TuningGuidance["direction"]): string | null {
+  const known = BELL_PARTIAL_PLACES.find((b) => b.match.test(label));
+  if (!known) return null;
+  if (known.place === null) {
+    return "The quint moves with the tierce and the nominal and is seldom tuned on its own: tune those, then measure again.";
+  }
+  return direction === "lower"
+    ? `Take metal ${known.place}: that lowers the ${known.name} most, the other partials less.`
+    : `Removing metal lowers bell partials, so a flat ${known.name} is met by lowering the partials around it to it (each where it is most affected), or by taking a little off the lip edge, which raises the whole bell.`;
+}
+
+const BELL_CAUTION = " On a tuning lathe, clamp the bell true and secure, and keep hands and tools clear while it turns.";
+
+/**
+ * Tuning guidance for a unit out of tolerance, or null when no pitch check failed: which way the
+ * pitch must move and by how many cents, the usual remedy of the family, and — where
  * spec.lengthMm is known and the pitch must rise — the proportional length estimate from
  * Euler–Bernoulli beam theory, f ∝ 1/L² at constant section, so L_new = L·√(f_measured/f_target).
+ * A bell also gets a direction for each named partial out of tolerance (hum, prime, tierce, quint,
+ * nominal), and guidance even when only those fail; it gets no length estimate (a shell is no beam).
  */
-export function tuningGuidance(spec: SpecInput, fundamentalResult: RequirementResult): TuningGuidance | null {
-  const { pitch, measuredHz, targetHz, deviationCents } = fundamentalResult;
-  if (pitch !== "fail" || measuredHz === null || targetHz === null || deviationCents === null) return null;
+export function tuningGuidance(spec: SpecInput, fundamentalResult: RequirementResult | null, all: readonly RequirementResult[] = []): TuningGuidance | null {
+  const failed = (r: RequirementResult) => r.pitch === "fail" && r.measuredHz !== null && r.deviationCents !== null;
+  const bell = spec.family === "handbell";
+  const partials = bell
+    ? all.filter((r) => failed(r) && r.required).flatMap((r) => {
+        const direction: TuningGuidance["direction"] = r.deviationCents! < 0 ? "raise" : "lower";
+        const remedy = bellPartialRemedy(r.label, direction);
+        return remedy ? [{ label: r.label, direction, cents: Math.round(Math.abs(r.deviationCents!) * 10) / 10, remedy }] : [];
+      })
+    : [];
+  const lead = fundamentalResult && failed(fundamentalResult) && fundamentalResult.targetHz !== null ? fundamentalResult : bell ? all.find((r) => failed(r) && r.required) ?? null : null;
+  if (!lead) return null;
+  const deviationCents = lead.deviationCents!;
   const direction: TuningGuidance["direction"] = deviationCents < 0 ? "raise" : "lower";
   let estimate: string | null = null;
-  if (direction === "raise" && spec.lengthMm !== null && spec.lengthMm > 0 && BEAM_FAMILIES.includes(spec.family)) {
+  const isFundamental = lead === fundamentalResult;
+  if (isFundamental && direction === "raise" && spec.lengthMm !== null && spec.lengthMm > 0 && BEAM_FAMILIES.includes(spec.family)) {
     const L = spec.lengthMm;
-    const newL = L * Math.sqrt(measuredHz / targetHz);
+    const newL = L * Math.sqrt(lead.measuredHz! / lead.targetHz!);
     const where = spec.family === "tuning_fork" ? " from each tine end" : spec.family === "free_bar" ? ", shared between the two ends" : "";
     estimate =
       `Estimate from beam theory (Euler–Bernoulli, f ∝ 1/L² at constant section): ${L.toFixed(2)} mm becomes ${newL.toFixed(2)} mm, ` +
@@ -789,8 +856,10 @@ export function tuningGuidance(spec: SpecInput, fundamentalResult: RequirementRe
   return {
     direction,
     cents: Math.round(Math.abs(deviationCents) * 10) / 10,
-    remedy: REMEDIES[spec.family][direction],
+    remedy: isFundamental ? REMEDIES[spec.family][direction] : bellPartialRemedy(lead.label, direction) ?? REMEDIES[spec.family][direction],
     estimate,
-    caution: CAUTION + (spec.family === "tuning_fork" ? CLINICAL_CAUTION : ""),
+    caution: CAUTION + (spec.family === "tuning_fork" ? CLINICAL_CAUTION : bell ? BELL_CAUTION : ""),
+    label: lead.label,
+    ...(bell ? { partials } : {}),
   };
 }

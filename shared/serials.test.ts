@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { MAX_RANGE_SIZE, SerialListError, SerialRangeError, expandSerialRange, parseSerialList, serialFromFileName, splitSerialList } from "./serials.ts";
+import { MAX_RANGE_SIZE, SerialListError, SerialRangeError, expandSerialRange, offsetSerial, parseSerialList, serialFromFileName, splitSerialList } from "./serials.ts";
 
 function rangeError(from: string, to: string): SerialRangeError {
   try {
@@ -120,5 +120,18 @@ describe("serialFromFileName", () => {
     expect(serialFromFileName("strike.wav", serials)).toBeNull();
     expect(serialFromFileName("F-0010 and F-0011.wav", serials)).toBeNull();
     expect(serialFromFileName("anything.wav", [])).toBeNull();
+  });
+});
+
+describe("offsetSerial", () => {
+  it("advances the trailing counter and keeps its width", () => {
+    expect(offsetSerial("F-0001", 119)).toBe("F-0120");
+    expect(offsetSerial("CT-0701", 2)).toBe("CT-0703");
+    expect(offsetSerial("A9", 1)).toBe("A10");
+    expect(offsetSerial("F-0010", -9)).toBe("F-0001");
+  });
+  it("gives null for a serial without a counter or one that would go below zero", () => {
+    expect(offsetSerial("ALPHA", 1)).toBeNull();
+    expect(offsetSerial("F-0001", -2)).toBeNull();
   });
 });

@@ -233,3 +233,15 @@ function containsAtBoundary(name: string, needle: string): boolean {
   }
   return false;
 }
+
+/**
+ * The serial `n` places after `serial` in its counter, keeping the counter's width ("F-0001", 119 →
+ * "F-0120"); null when the serial does not end in digits or the counter would go below zero.
+ */
+export function offsetSerial(serial: string, n: number): string | null {
+  const m = /^(.*?)(\d+)$/.exec(serial.trim());
+  if (!m || m[2].length > MAX_COUNTER_DIGITS) return null;
+  const next = Number(m[2]) + n;
+  if (!Number.isSafeInteger(next) || next < 0) return null;
+  return `${m[1]}${String(next).padStart(m[2].length, "0")}`;
+}

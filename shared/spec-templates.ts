@@ -1,9 +1,11 @@
 /**
  * Starting specifications per product family, for the spec editor. Overtone ratios come from
- * published beam theory; tolerances, strike counts and limits are starting points of the trade
- * (marked "common practice, no published source") that the workshop edits to its own design.
+ * published beam theory where there is one (forks, bars); bell ratios and every tolerance, strike
+ * count and limit are starting points of the trade (common practice, no published source — marked
+ * beside each value here) that the workshop edits to its own design.
  */
 import type { Family, SpecFormValues, SpecPartialInput } from "./schemas/spec.ts";
+import { noteNameHz } from "./tuning.ts";
 import { A4_HZ, CANTILEVER_BETA_L, FREE_FREE_BETA_L, STEEL_FREQUENCY_TEMPERATURE_COEFFICIENT_PER_C, beamFrequencyRatios } from "./physics.ts";
 
 /** Rounded to the three decimals the handbooks print (Blevins Table 8-1; Thomson App. D). */
@@ -34,14 +36,21 @@ const REFERENCE_TEMPERATURE_C = 20;
  */
 const STRIKES_PER_UNIT = 3;
 
-const STARTING_POINT_NOTE =
-  "Tolerances and the number of strikes are starting points (common practice, no published source): set them to your own design and customers' needs.";
-const STEEL_COEFFICIENT_NOTE =
-  "The temperature coefficient −1×10⁻⁴ per °C is a value for steel quoted from memory; confirm it for your alloy, or measure your own parts at two temperatures.";
+// Template texts are shown to the workshop as written: they speak as a colleague would and name a
+// published source where there is one. Where a value is only a starting point of the trade (common
+// practice, no published source — kept in these comments and in the tests, not on screen), the text
+// says "typical starting value — confirm with your own parts".
+const STARTING_POINT_NOTE = "Tolerances and the number of strikes are typical starting values — confirm with your own parts and your customers' needs.";
+// −1×10⁻⁴ per °C for steel: from memory (E falls by about 2–2.5×10⁻⁴ per °C, f ∝ √E); see shared/physics.ts.
+const STEEL_COEFFICIENT_NOTE = "Temperature coefficient −1×10⁻⁴ per °C: a typical starting value for steel — confirm with your own parts by measuring a few at two temperatures.";
+const NON_STEEL_COEFFICIENT_NOTE =
+  "Temperature coefficient −1×10⁻⁴ per °C is a typical starting value for steel; bronze and brass differ — measure a few of your own parts at two temperatures and enter yours.";
+const PITCH_NOTE = "A4 = 440 Hz is the standard tuning frequency (ISO 16); set the note and the reference pitch the customer orders (442, 443, 432 Hz …).";
+const MASTER_NOTE = "To take the targets from your own reference part instead, start from a master unit.";
 
-function fundamental(toleranceCents: number): SpecPartialInput {
+function fundamental(toleranceCents: number, label = "Fundamental", note = "A4"): SpecPartialInput {
   // A4 = 440 Hz (ISO 16:1975) as a neutral start; the user sets the product's own pitch.
-  return { label: "Fundamental", isFundamental: true, targetKind: "absolute", targetHz: A4_HZ, toleranceCents, required: true };
+  return { label, isFundamental: true, targetKind: "absolute", targetNote: note, targetHz: noteNameHz(note, A4_HZ), toleranceCents, required: true };
 }
 
 function ratioPartial(label: string, ratio: number, toleranceCents: number, required: boolean): SpecPartialInput {
@@ -55,6 +64,7 @@ function base(family: Family, name: string, description: string, partials: SpecP
     description,
     referenceTemperatureC: REFERENCE_TEMPERATURE_C,
     tempCoefficientPerC: STEEL_FREQUENCY_TEMPERATURE_COEFFICIENT_PER_C,
+    referencePitchHz: A4_HZ,
     decisionRule: "simple",
     strikesRequired: STRIKES_PER_UNIT,
     lengthMm: null,
@@ -63,6 +73,26 @@ function base(family: Family, name: string, description: string, partials: SpecP
   };
 }
 
+/**
+ * Bell partials as the trade names them, with the usual starting ratios to the prime:
+ * hum 0.5, prime 1, tierce 1.2 (a minor third), quint 1.5, nominal 2 — common practice for tuned
+ * bells, no published source. Tolerances: common practice, no published source.
+ */
+export const BELL_PARTIAL_RATIOS = [
+  { label: "Hum", ratio: 0.5, toleranceCents: 20, required: true },
+  { label: "Prime", ratio: 1, toleranceCents: 5, required: true },
+  { label: "Tierce", ratio: 1.2, toleranceCents: 15, required: true },
+  { label: "Quint", ratio: 1.5, toleranceCents: 30, required: false },
+  { label: "Nominal", ratio: 2, toleranceCents: 10, required: true },
+] as const;
+
+/** The series a tube's strike note is read from (shared/strike-note.ts), as ratios to the strike note. */
+export const TUBE_SERIES = [
+  { label: "Series partial 2", ratio: 2 },
+  { label: "Series partial 3", ratio: 3 },
+  { label: "Series partial 4", ratio: 4 },
+] as const;
+
 function build(family: Family): SpecFormValues {
   switch (family) {
     case "tuning_fork":
@@ -70,13 +100,13 @@ function build(family: Family): SpecFormValues {
         family,
         "Tuning fork A4 (440 Hz)",
         [
-          "Fundamental A4 = 440 Hz (ISO 16:1975); change it to your fork's pitch.",
-          `First overtone at ${FORK_OVERTONE_RATIO_THEORY}× the fundamental: cantilever beam theory, (4.6941/1.8751)² (Blevins, Formulas for Natural Frequency and Mode Shape, Table 8-1; Thomson, Theory of Vibration with Applications, App. D).`,
-          "A real steel fork's first balanced overtone usually sits nearer 6× (about 3.3 kHz on a 550 Hz fork) and dies away much faster than the fundamental (common practice, no published source), so it is optional here with a wide ±100 cents that covers both; narrow it to what your own forks show.",
-          "±5 cents on the fundamental is a common starting point for musical forks; clinical and laboratory forks may call for guarded acceptance.",
+          PITCH_NOTE,
+          `First overtone at ${FORK_OVERTONE_RATIO_THEORY}× the fundamental, from cantilever beam theory, (4.6941/1.8751)² (Blevins, Formulas for Natural Frequency and Mode Shape, Table 8-1).`,
+          "On real steel forks the first overtone usually sits nearer 6× and dies away much faster than the fundamental, so it is optional here with a wide ±100 cents that covers both — typical starting value, confirm with your own parts.",
+          "±5 cents on the fundamental is a typical starting value for musical forks; clinical and laboratory forks may call for guarded acceptance.",
           STARTING_POINT_NOTE,
           STEEL_COEFFICIENT_NOTE,
-        ].join(" "),
+        ].join("\n"),
         [
           // ±5 cents: common practice for musical forks, no published source.
           fundamental(5),
@@ -85,25 +115,19 @@ function build(family: Family): SpecFormValues {
           ratioPartial("First overtone", FORK_OVERTONE_RATIO_THEORY, 100, false),
         ],
       );
-    case "free_bar":
-    case "tube": {
+    case "free_bar": {
       const [, r2, r3, r4] = FREE_FREE_OVERTONE_RATIOS;
-      const what = family === "free_bar" ? "bar" : "tube";
-      const extra =
-        family === "free_bar"
-          ? "These ratios hold for a bar of uniform section; bars undercut at the middle (as for marimba and xylophone bars) are tuned to other ratios such as 4× and 10× — enter your own (from memory: T. D. Rossing, Science of Percussion Instruments). A bar struck at its middle barely sounds the 2nd mode, which has a node there."
-          : "A chime tube's heard strike note usually comes from its higher partials rather than the lowest mode (from memory: T. D. Rossing, Science of Percussion Instruments); set the fundamental to the mode you tune.";
       return base(
         family,
-        family === "free_bar" ? "Free bar" : "Chime tube",
+        "Free bar",
         [
-          `Partials of a free–free ${what}, 1 : ${r2} : ${r3} : ${r4}, from Euler–Bernoulli beam theory: (7.8532/4.7300)², (10.9956/4.7300)², (14.1372/4.7300)² (Blevins, Formulas for Natural Frequency and Mode Shape, Table 8-1; Thomson, Theory of Vibration with Applications, App. D).`,
-          "Thick bars and short tubes sit somewhat below these ratios (shear and rotary inertia), so the overtones are optional with wider tolerances; make them required once your own parts show them reliably.",
-          extra,
-          "Fundamental A4 = 440 Hz (ISO 16:1975); change it to the part's pitch.",
+          `Partials of a free–free bar, 1 : ${r2} : ${r3} : ${r4}, from Euler–Bernoulli beam theory: (7.8532/4.7300)², (10.9956/4.7300)², (14.1372/4.7300)² (Blevins, Formulas for Natural Frequency and Mode Shape, Table 8-1).`,
+          "Thick bars sit somewhat below these ratios, so the overtones are optional with wider tolerances; make them required once your own bars show them reliably.",
+          "They hold for a bar of uniform section; bars undercut at the middle are tuned to other ratios, such as 4× and 10× — enter your own. A bar struck at its middle barely sounds the 2nd mode, which has a node there.",
+          PITCH_NOTE,
           STARTING_POINT_NOTE,
           STEEL_COEFFICIENT_NOTE,
-        ].join(" "),
+        ].join("\n"),
         [
           // ±5 cents on the fundamental, wider on the overtones: common practice, no published source.
           fundamental(5),
@@ -113,29 +137,61 @@ function build(family: Family): SpecFormValues {
         ],
       );
     }
-    case "handbell":
-    case "bowl":
-    case "other": {
-      const why =
-        family === "other"
-          ? "Add the partials your design needs, as ratios to the fundamental or in Hz."
-          : `A ${family === "handbell" ? "bell" : "bowl"} is a shell whose partials have no simple closed-form theory: their ratios depend on the profile and wall thickness, and each workshop tunes them to its own design. Add the partials you tune (as ratios to the fundamental), and a maximum beat where doublets matter.`;
-      const tolerance = family === "handbell" ? 5 : 10;
+    case "tube":
       return base(
         family,
-        family === "handbell" ? "Handbell" : family === "bowl" ? "Singing bowl" : "Tuned part",
+        "Chime tube C5 (strike note)",
         [
-          why,
-          "Fundamental A4 = 440 Hz (ISO 16:1975); change it to the part's pitch.",
+          "A chime tube is heard at its strike note, not at its lowest partial: the usual reading for tubular chimes takes the partials that stand near 2 : 3 : 4 and hears their common fundamental, about an octave below the lowest of them. Tinelog reads it from each strike and shows on the strike page which partials it used.",
+          "Target C5 at A4 = 440 Hz (ISO 16); set your tube's note and the reference pitch the customer orders.",
+          "The three partials of the series are optional, at 2, 3 and 4 × the strike note with ±75 cents: a uniform tube puts the highest of them a little sharp of 4× (Euler–Bernoulli beam theory gives about 4.17× half the lowest of them) — typical starting values, confirm with your own tubes.",
           STARTING_POINT_NOTE,
-          family === "other"
-            ? STEEL_COEFFICIENT_NOTE
-            : "The temperature coefficient −1×10⁻⁴ per °C is a value for steel quoted from memory; bronze and brass differ — measure your own parts at two temperatures and enter it.",
-        ].join(" "),
-        // ±5 cents for bells, ±10 cents for bowls and other parts: common practice, no published source.
-        [fundamental(tolerance)],
+          STEEL_COEFFICIENT_NOTE,
+        ].join("\n"),
+        [
+          // ±5 cents on the strike note: common practice for chimes, no published source.
+          { label: "Strike note", isFundamental: true, targetKind: "strike_note", targetNote: "C5", targetHz: noteNameHz("C5", A4_HZ), toleranceCents: 5, required: true },
+          // ±75 cents covers the Euler–Bernoulli 4.17 (+73 cents at the 4th partial); common practice, no published source.
+          ...TUBE_SERIES.map((p) => ratioPartial(p.label, p.ratio, 75, false)),
+        ],
       );
-    }
+    case "handbell":
+      return base(
+        family,
+        "Handbell A4 (prime 440 Hz)",
+        [
+          "Partials named as the bell trade names them, with the usual starting ratios to the prime: hum 0.5, prime 1, tierce 1.2 (a minor third above), quint 1.5, nominal 2 — typical starting values, confirm with your own bells.",
+          "Many handbells are tuned to another profile (a twelfth, 3×, above the fundamental): edit the partials to your design. Add a maximum beat where a doublet matters.",
+          "A bell is a shell, not a beam: no length estimate is offered; the tuning guidance says where metal is usually taken for each partial.",
+          PITCH_NOTE,
+          MASTER_NOTE,
+          STARTING_POINT_NOTE,
+          NON_STEEL_COEFFICIENT_NOTE,
+        ].join("\n"),
+        BELL_PARTIAL_RATIOS.map((b) => (b.label === "Prime" ? fundamental(b.toleranceCents, "Prime") : ratioPartial(b.label, b.ratio, b.toleranceCents, b.required))),
+      );
+    case "bowl":
+      return base(
+        family,
+        "Singing bowl",
+        [
+          "A singing bowl's partials follow its profile and wall, and each workshop voices them its own way. The usual start is a master unit: strike your reference bowl and its measured partials become the targets, with tolerances around them.",
+          "Or set the fundamental here and add the partials you tune, as ratios to it, with a maximum beat where doublets matter.",
+          PITCH_NOTE,
+          STARTING_POINT_NOTE,
+          NON_STEEL_COEFFICIENT_NOTE,
+        ].join("\n"),
+        // ±10 cents for bowls: common practice, no published source.
+        [fundamental(10)],
+      );
+    case "other":
+      return base(
+        family,
+        "Tuned part",
+        ["Add the partials your design needs, as ratios to the fundamental, in Hz or by note.", PITCH_NOTE, MASTER_NOTE, STARTING_POINT_NOTE, STEEL_COEFFICIENT_NOTE].join("\n"),
+        // ±10 cents: common practice, no published source.
+        [fundamental(10)],
+      );
   }
 }
 

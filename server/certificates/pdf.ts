@@ -6,6 +6,11 @@
  * Deterministic: the same CertificateData gives the same bytes (CreationDate/ModDate come from
  * issuedAt, pdfkit derives the file ID from the info dictionary, fonts and QR are generated without
  * randomness), so the stored SHA-256 can be recomputed.
+ *
+ * Layout: each section is measured first on a scratch page. A certificate whose content fits one
+ * page is set on one page (with its spacing tightened a little if that is what it takes); a
+ * longer one breaks between sections, never inside one — except a table longer than a page,
+ * which continues on the next page with its header repeated.
  */
 import { createRequire } from "node:module";
 import PDFDocument from "pdfkit";
@@ -191,17 +196,42 @@ export async function renderCertificatePdf(input: CertificateData): Promise<Buff
     issuedAt: data.issuedAt,
   });
 
+  // The sections in order; the notes keep the end mark with them, so it never stands alone.
+  const traceability = data.traceability;
+  const sections: ((d: Doc) => void)[] = [
+    (d) => drawTitleBlock(d, data, qr),
+    (d) => drawParticulars(d, data),
+    (d) => drawMethod(d, data.method),
+    (d) => drawResults(d, data),
+    ...(traceability ? [(d: Doc) => drawTraceability(d, traceability)] : []),
+    (d) => drawConformity(d, data),
+    (d) => drawAuthorisation(d, data),
+    (d) => {
+      drawFinePrint(d, data);
+      drawEndMark(d);
+    },
+  ];
+  const pageRoom = BOTTOM - MARGIN.top;
+  // One page if the content fits at the designed spacing or somewhat tighter; else the designed spacing over pages.
+  let heights: number[] = [];
+  for (const k of [1, 0.75, 0.5]) {
+    spacing = k;
+    heights = measureSections(sections);
+    if (heights.reduce((a, b) => a + b, 0) <= pageRoom) break;
+    spacing = 1;
+  }
+  if (spacing === 1) heights = measureSections(sections);
+
   doc.on("pageAdded", () => drawHeader(doc, data));
   doc.addPage();
-
-  drawTitleBlock(doc, data, qr);
-  drawParticulars(doc, data);
-  drawResults(doc, data);
-  if (data.traceability) drawTraceability(doc, data.traceability);
-  drawConformity(doc, data);
-  drawAuthorisation(doc, data);
-  drawFinePrint(doc, data);
-  drawEndMark(doc);
+  sections.forEach((draw, i) => {
+    // A section that fits a page starts on a fresh one rather than breaking; a longer one breaks inside.
+    if (i > 0 && doc.y + heights[i] > BOTTOM && heights[i] <= pageRoom) doc.addPage();
+    sectionFits = doc.y + heights[i] <= BOTTOM;
+    draw(doc);
+    sectionFits = false;
+  });
+  spacing = 1;
 
   drawFooters(doc, data);
   doc.end();
@@ -235,6 +265,23 @@ export function openCertificateDocument(info: { title: string; author: string; s
   doc.registerFont("medium", FONTS.medium);
   doc.registerFont("semibold", FONTS.semibold);
   return { doc, finished };
+}
+
+/** Height of each section (pt) drawn one after another on a scratch page too tall to break. */
+function measureSections(sections: ((d: Doc) => void)[]): number[] {
+  const scratch = new PDFDocument({ size: [PAGE.width, 40_000], margins: MARGIN, autoFirstPage: false });
+  scratch.registerFont("regular", FONTS.regular);
+  scratch.registerFont("medium", FONTS.medium);
+  scratch.registerFont("semibold", FONTS.semibold);
+  scratch.addPage();
+  scratch.y = MARGIN.top;
+  const heights = sections.map((draw) => {
+    const y0 = scratch.y;
+    draw(scratch);
+    return scratch.y - y0;
+  });
+  scratch.end();
+  return heights;
 }
 
 /** The running header of every page: the workshop on the left, the document and its number on the right. */
@@ -294,13 +341,26 @@ export function drawWithdrawnNotice(doc: Doc, withdrawn: { at: string; reason: s
   noticeBox(doc, `WITHDRAWN on ${formatDateUtc(withdrawn.at)}. This certificate was withdrawn by the issuing workshop and is no longer valid; it stays on record as issued. Reason: ${withdrawn.reason}`, COLOUR.fail, "#FFFFFF", true);
 }
 
+/**
+ * Vertical spacing of the sections, 1 = as designed. Set for one render at a time (drawing is
+ * synchronous); a certificate that just misses one page is tightened to fit.
+ */
+let spacing = 1;
+/** True while drawing a section already known to fit where it starts: no break inside it then. */
+let sectionFits = false;
+
+/** Whether `height` more points would run past the page's bottom margin (never inside a section known to fit). */
+export function wouldOverflow(doc: Doc, height: number): boolean {
+  return !sectionFits && doc.y + height > doc.page.height - MARGIN.bottom;
+}
+
 export function ensureSpace(doc: Doc, height: number): void {
-  if (doc.y + height > BOTTOM) doc.addPage();
+  if (wouldOverflow(doc, height)) doc.addPage();
 }
 
 export function sectionHeading(doc: Doc, title: string, spaceAfterHeading = 40): void {
   ensureSpace(doc, 18 + spaceAfterHeading);
-  doc.moveDown(0.5);
+  doc.moveDown(0.5 * spacing);
   doc.font("semibold").fontSize(10).fillColor(COLOUR.accent).text(title, MARGIN.left, doc.y, { width: CONTENT_WIDTH });
   doc.moveDown(0.25);
 }
@@ -324,7 +384,7 @@ export function drawTitleHead(doc: Doc, qr: Buffer, title: string, number: strin
 /** The verification address and code, right-aligned under the title. */
 export function drawVerifyLine(doc: Doc, data: Pick<CertificateData, "verifyUrl" | "verificationCode">): void {
   doc.font("regular").fontSize(7.5).fillColor(COLOUR.muted).text(`Verify at ${data.verifyUrl} \u00B7 code ${data.verificationCode}`, MARGIN.left, doc.y, { width: CONTENT_WIDTH, align: "right", link: data.verifyUrl });
-  doc.moveDown(0.4);
+  doc.moveDown(0.4 * spacing);
 }
 
 function drawTitleBlock(doc: Doc, data: CertificateData, qr: Buffer): void {
@@ -404,7 +464,6 @@ function drawParticulars(doc: Doc, data: CertificateData): void {
     ["Place of measurement", c.location ?? "at the issuing workshop"],
   ];
   drawParticularColumns(doc, left, right);
-  drawMethod(doc, data.method);
 }
 
 /** The "Particulars" section: label/value pairs in two columns. */
@@ -429,13 +488,15 @@ function labelledColumn(doc: Doc, rows: [string, string][], x: number, y: number
   for (const [label, value] of rows) {
     doc.font("regular").fontSize(7.5).fillColor(COLOUR.muted).text(label, x, y + 1, { width: labelW });
     doc.font("regular").fontSize(9).fillColor(COLOUR.ink).text(value, x + labelW, y, { width: width - labelW, lineGap: 0.5 });
-    y = doc.y + 3;
+    y = doc.y + 3 * spacing;
   }
   return y;
 }
 
-function drawTableHeader(doc: Doc): void {
-  drawColumnHeader(doc, COLUMNS);
+/** The results header; a frequency corrected to the reference temperature says so in its column title. */
+function drawTableHeader(doc: Doc, data: CertificateData): void {
+  const t = data.conditions.referenceTemperatureC;
+  drawColumnHeader(doc, t === null || t === undefined ? COLUMNS : COLUMNS.map((c) => (c.key === "measured" ? { ...c, title: `Measured at ${trimNumber(t, 1)} \u00B0C (Hz)` } : c)));
 }
 
 /** A results table's header row, the column titles on the soft accent. */
@@ -455,16 +516,16 @@ export function drawColumnHeader(doc: Doc, columns: Column[]): void {
 
 function drawResults(doc: Doc, data: CertificateData): void {
   sectionHeading(doc, "Results", 70);
-  drawTableHeader(doc);
+  drawTableHeader(doc, data);
   data.results.forEach((r, i) => {
     const cells = cellsFor(r);
     doc.font("regular").fontSize(8);
     const h = Math.max(...COLUMNS.map((c) => doc.heightOfString(cells[c.key], { width: c.width - 6 }))) + 8;
-    if (doc.y + h > BOTTOM) {
+    if (wouldOverflow(doc, h)) {
       doc.addPage();
       doc.font("regular").fontSize(7.5).fillColor(COLOUR.muted).text("Results, continued", MARGIN.left, doc.y);
       doc.moveDown(0.3);
-      drawTableHeader(doc);
+      drawTableHeader(doc, data);
     }
     const y = doc.y;
     if (i % 2 === 1) doc.rect(MARGIN.left, y, CONTENT_WIDTH, h).fillColor(COLOUR.zebra).fill();
@@ -549,14 +610,14 @@ export function drawFinePrint(doc: Doc, data: Pick<CertificateData, "flags"> & {
     const y = doc.y;
     doc.fillColor(COLOUR.muted).text(`${i + 1}.`, MARGIN.left, y, { width: 12 });
     doc.fillColor(strong ? COLOUR.ink : COLOUR.muted).text(note, MARGIN.left + 14, y, { width: CONTENT_WIDTH - 14, lineGap: 0.5 });
-    doc.y += 2.5;
+    doc.y += 2.5 * spacing;
   });
   doc.x = MARGIN.left;
 }
 
 export function drawEndMark(doc: Doc): void {
   ensureSpace(doc, 30);
-  doc.moveDown(1);
+  doc.moveDown(spacing);
   const y = doc.y + 5;
   const label = FINE_PRINT.endMark;
   doc.font("medium").fontSize(8.5).fillColor(COLOUR.accent);
@@ -596,7 +657,7 @@ function drawGrid(doc: Doc, columns: GridColumn[], rows: { cells: string[]; stro
   rows.forEach((row, i) => {
     doc.font(row.strong ? "semibold" : "regular").fontSize(fontSize);
     const h = Math.max(...columns.map((c, k) => doc.heightOfString(row.cells[k] ?? "", { width: c.width - 6, lineGap: 0.3 }))) + 7;
-    if (doc.y + h > BOTTOM) {
+    if (wouldOverflow(doc, h)) {
       doc.addPage();
       header();
     }

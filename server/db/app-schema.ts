@@ -152,6 +152,8 @@ export const specVersion = sqliteTable(
     decisionRule: text("decision_rule").notNull(),
     strikesRequired: integer("strikes_required").notNull(),
     lengthMm: real("length_mm"),
+    /** A4, Hz, for targets given as note names (ISO 16: 440 Hz). */
+    referencePitchHz: real("reference_pitch_hz").notNull().default(440),
     changeNote: text("change_note").notNull().default(""),
     createdBy: text("created_by").references(() => user.id),
     createdAt: createdAt(),
@@ -167,8 +169,13 @@ export const specPartial = sqliteTable("spec_partial", {
   isFundamental: integer("is_fundamental", { mode: "boolean" }).notNull(),
   targetKind: text("target_kind").notNull(),
   targetHz: real("target_hz"),
+  /** The note name the target was given as ("C#5"); targetHz holds its frequency at the reference pitch. */
+  targetNote: text("target_note"),
   ratio: real("ratio"),
   toleranceCents: real("tolerance_cents").notNull(),
+  /** The tolerance as it was given (cents, Hz or ppm); toleranceCents is what the evaluation uses. */
+  toleranceUnit: text("tolerance_unit").notNull().default("cents"),
+  toleranceValue: real("tolerance_value"),
   minT60S: real("min_t60_s"),
   minQ: real("min_q"),
   maxBeatHz: real("max_beat_hz"),

@@ -65,10 +65,16 @@ export function certificateRoutes(deps: AppDeps) {
 
   // Public and rate limited: a code is random, but nobody should be able to try codes at speed.
   const verifyLimit = rateLimit({ windowMs: 60_000, limit: 30, standardHeaders: "draft-8", legacyHeaders: false, handler: (_req, res) => res.status(429).json({ error: { code: "too_many_requests", message: "Too many verification look-ups from this address; wait a minute and try again." } }) });
+  // An unknown code is 404 for API callers. The verification page asks with ?notFound=ok and gets
+  // 200 { found: false } instead: a customer with a mistyped link is an expected visitor, not an
+  // error (the browser would log a 404 in the console).
   r.get("/verify/:code", publicRoute, verifyLimit, (req, res) => {
     const code = verificationCodeSchema.safeParse(String(req.params.code));
-    if (!code.success) throw notFound("No certificate has this verification code; check the link. A certificate");
-    res.set("Cache-Control", "no-store").json(verifyByCode(certificates, code.data));
+    const found = code.success ? verifyByCode(certificates, code.data) : null;
+    res.set("Cache-Control", "no-store");
+    if (found) return res.json({ found: true, ...found });
+    if (req.query.notFound === "ok") return res.json({ found: false });
+    throw new HttpError(404, "not_found", "No certificate has this verification code. Check that the whole link (or the QR code on the certificate) was used.");
   });
 
   return r;

@@ -4,7 +4,7 @@ import { Router } from "express";
 import { invitation, organization, user } from "../db/schema.ts";
 import { notFound } from "../http-error.ts";
 import { listWorkshops } from "../middleware/context.ts";
-import { publicRoute, requireUser, userOf } from "../middleware/guards.ts";
+import { publicRoute } from "../middleware/guards.ts";
 import type { AppDeps } from "../app.ts";
 
 export function sessionRoutes({ db }: AppDeps) {
@@ -14,8 +14,11 @@ export function sessionRoutes({ db }: AppDeps) {
     res.json({ ok: true });
   });
 
-  r.get("/me", requireUser, (req, res) => {
-    const u = userOf(req);
+  // Open to anyone: a signed-out browser asks on every page, and "nobody is signed in" is an
+  // answer, not an error (a 401 here would log an error in the console of every public page).
+  r.get("/me", publicRoute, (req, res) => {
+    const u = req.ctx.user;
+    if (!u) return res.json({ user: null, workshops: [], activeWorkshop: null });
     res.json({ user: u, workshops: listWorkshops(db, u.id), activeWorkshop: req.ctx.workshop });
   });
 
@@ -35,8 +38,10 @@ export function sessionRoutes({ db }: AppDeps) {
       .innerJoin(user, eq(user.id, invitation.inviterId))
       .where(eq(invitation.id, String(req.params.id)))
       .get();
-    if (!row) throw notFound("That invitation");
-    res.json(row);
+    if (row) return res.json(row);
+    // The invitation page asks with ?notFound=ok: an old or mistyped link is an expected visitor, not an error.
+    if (req.query.notFound === "ok") return res.json({ found: false });
+    throw notFound("That invitation");
   });
 
   return r;

@@ -1,20 +1,16 @@
 /**
  * Strike upload and read-back. The upload is checked in this order, each with its own answer:
- * declared size (413 before the body is read), disk and quota (507/413), the multipart stream with
- * its byte limit (413 mid-stream), the RIFF/WAVE/fmt bytes (415), format bounds (422), fields (400),
- * duplicate (409). Only then is the file moved into the store and the strike queued (202).
+ * declared size (413 before the body is read), disk and quota (507/413), a full analysis queue
+ * (503), the multipart stream with its byte limit (413 mid-stream), the RIFF/WAVE/fmt bytes (415),
+ * format bounds (422) — those in ./wav-upload.ts — then fields (400) and duplicate (409). Only then
+ * is the file moved into the store and the strike queued (202).
  */
-import { randomUUID } from "node:crypto";
-import { open } from "node:fs/promises";
 import type { NextFunction, Request, Response } from "express";
 import { Router } from "express";
-import multer from "multer";
 import { dispositionInputSchema, updateUnitSchema } from "../../shared/schemas/batch.ts";
 import { strikeUploadFieldsSchema } from "../../shared/schemas/strike.ts";
 import { supersedeDispositionSchema, voidStrikeSchema } from "../../shared/schemas/corrections.ts";
 import { serialFromFileName } from "../../shared/serials.ts";
-import { AnalysisInputError } from "../analysis/errors.ts";
-import { readWavHeader } from "../analysis/wav.ts";
 import { and, asc, count, eq, inArray } from "drizzle-orm";
 import { disposition, strike, unit } from "../db/schema.ts";
 import { badRequest, conflict, HttpError, notFound } from "../http-error.ts";
@@ -25,75 +21,25 @@ import { recordDisposition, supersedeDisposition } from "../services/disposition
 import { assertNotDuplicate, findUnit, getStrike, getUnit, insertStrike, nextUnmeasured, strikeFile, voidStrike } from "../services/strikes.ts";
 import { checkStrikeInstruments } from "../services/instruments.ts";
 import type { AppDeps } from "../app.ts";
-
-const HEADER_BYTES = 1 << 20;
-/** Upload policy on top of what the decoder accepts (readWavHeader already bounds channels and duration). */
-const LIMITS = { minRate: 8000, maxRate: 384_000 };
+import { wavUpload } from "./wav-upload.ts";
 
 export function strikeRoutes(deps: AppDeps) {
   const { db, sqlite, storage, queue, env } = deps;
   const r = Router();
-  const limitBytes = env.UPLOAD_LIMIT_MB * 1024 * 1024;
-  const tooLarge = () => new HttpError(413, "payload_too_large", `The recording is larger than the upload limit of ${env.UPLOAD_LIMIT_MB} MB. Trim it to the strike and its ring (a few seconds), then upload again.`);
-
-  const receive = multer({
-    storage: multer.diskStorage({ destination: storage.incoming, filename: (_req, _file, cb) => cb(null, `${randomUUID()}.part`) }),
-    limits: { fileSize: limitBytes, files: 1, fields: 10, fieldSize: 1024, parts: 12 },
-  }).single("audio");
-
-  /** Refuse before reading the body when it cannot fit. */
-  const precheck = (req: Request, _res: Response, next: NextFunction) => {
-    const declared = Number(req.get("content-length") ?? 0);
-    if (declared > limitBytes + 64 * 1024) return next(tooLarge());
-    if (!(req.get("content-type") ?? "").startsWith("multipart/form-data")) {
-      return next(new HttpError(415, "unsupported_media_type", "Send the recording as multipart/form-data with the WAV file in the field \"audio\"."));
+  const upload = wavUpload(deps);
+  const multipart = upload.multipart;
+  // Beyond the upload's own checks: no new strike while the analysis queue is full.
+  const precheck = upload.precheck(() => {
+    const [{ waiting }] = db.select({ waiting: count() }).from(strike).where(inArray(strike.state, ["queued", "analysing"])).all();
+    if (waiting >= env.ANALYSIS_QUEUE) {
+      throw new HttpError(503, "busy", `The analysis queue is full (${waiting} recordings waiting). Nothing was stored; upload again in a minute.`);
     }
-    try {
-      storage.checkRoom(db, workshopOf(req).id, declared);
-      const [{ waiting }] = db.select({ waiting: count() }).from(strike).where(inArray(strike.state, ["queued", "analysing"])).all();
-      if (waiting >= env.ANALYSIS_QUEUE) {
-        throw new HttpError(503, "busy", `The analysis queue is full (${waiting} recordings waiting). Nothing was stored; upload again in a minute.`);
-      }
-      next();
-    } catch (error) {
-      next(error);
-    }
-  };
-
-  const multipart = (req: Request, res: Response, next: NextFunction) => {
-    receive(req, res, (error: unknown) => {
-      if (!error) return next();
-      if (error instanceof multer.MulterError) {
-        if (error.code === "LIMIT_FILE_SIZE") return next(tooLarge());
-        if (error.code === "LIMIT_UNEXPECTED_FILE") return next(badRequest(`Put the WAV file in the field "audio", one file per request.`, { audio: "Expected one file in the field audio" }));
-        return next(badRequest(`The upload could not be read (${error.message}).`));
-      }
-      next(error);
-    });
-  };
+  });
 
   async function accept(req: Request, unitId: string) {
-    const file = req.file;
-    if (!file) throw badRequest('Attach a WAV recording in the field "audio".', { audio: "No file received" });
     let kept = false;
     try {
-      const handle = await open(file.path, "r");
-      const head = new Uint8Array(Math.min(HEADER_BYTES, file.size));
-      await handle.read(head, 0, head.length, 0);
-      await handle.close();
-      let header;
-      try {
-        header = readWavHeader(head, { fileSize: file.size });
-      } catch (error) {
-        if (error instanceof AnalysisInputError) {
-          const status = error.code === "not_wav" ? 415 : 422;
-          throw new HttpError(status, status === 415 ? "unsupported_media_type" : "unprocessable", error.message, { audio: error.message });
-        }
-        throw error;
-      }
-      if (header.sampleRate < LIMITS.minRate || header.sampleRate > LIMITS.maxRate) {
-        throw new HttpError(422, "unprocessable", `The sample rate is ${header.sampleRate} Hz; Tinelog accepts ${LIMITS.minRate}–${LIMITS.maxRate} Hz. Record at 44.1 or 48 kHz.`, { audio: "Sample rate out of range" });
-      }
+      const { file, header } = await upload.checkedFile(req);
       const fields = strikeUploadFieldsSchema.parse(req.body ?? {});
       checkStrikeInstruments(db, workshopOf(req).id, fields, fields.temperatureC);
       // Again with the real size: a chunked upload declares none before it is read.
@@ -124,7 +70,7 @@ export function strikeRoutes(deps: AppDeps) {
         throw error;
       }
     } finally {
-      if (!kept) storage.discard(file.path);
+      if (!kept && req.file) storage.discard(req.file.path);
     }
   }
 

@@ -106,6 +106,7 @@ function ledgerRows(db: Db, batchId: string): LedgerRow[] {
       lastMeasuredAt: lastAt?.toISOString() ?? null,
       verdict: ev?.verdict ?? null,
       fundamentalHz: fund?.measuredHz ?? null,
+      temperatureCorrected: ev?.temperatureCorrected ?? false,
       deviationCents: fund?.deviationCents ?? null,
       overtoneRatio: overtone?.measuredRatio ?? null,
       t60S: fund?.t60S ?? null,
@@ -154,7 +155,16 @@ export function getBatch(db: Db, workshopId: string, batchId: string): BatchDeta
   const rows = ledgerRows(db, row.id);
   const partials = db.select().from(specPartial).where(eq(specPartial.specVersionId, row.specVersionId)).orderBy(asc(specPartial.position)).all();
   const fund = partials.find((p) => p.isFundamental) ?? partials[0];
-  return { ...summarize(db, row, rows), notes: row.notes, rows, statistics: statistics(rows), fundamentalToleranceCents: fund?.toleranceCents ?? null, minT60S: fund?.minT60S ?? null };
+  const version = db.select({ referenceTemperatureC: specVersion.referenceTemperatureC }).from(specVersion).where(eq(specVersion.id, row.specVersionId)).get();
+  return {
+    ...summarize(db, row, rows),
+    notes: row.notes,
+    rows,
+    statistics: statistics(rows),
+    fundamentalToleranceCents: fund?.toleranceCents ?? null,
+    minT60S: fund?.minT60S ?? null,
+    referenceTemperatureC: version?.referenceTemperatureC ?? 20,
+  };
 }
 
 function statistics(rows: LedgerRow[]): BatchStatistics {

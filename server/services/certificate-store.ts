@@ -9,6 +9,7 @@ import path from "node:path";
 import { and, eq, inArray, like, max } from "drizzle-orm";
 import type { Db } from "../db/client.ts";
 import { batchCertificate, certificate, certificateWithdrawal, user } from "../db/schema.ts";
+import { certificateNumber } from "../../shared/schemas/certificate.ts";
 import { conflict, notFound } from "../http-error.ts";
 
 export function pdfPath(dataDir: string, key: string): string {
@@ -70,7 +71,7 @@ export function nextNumber(db: Db, workshopId: string, prefix: string, at: Date)
     .filter((n): n is string => n !== null && /^\d+$/.test(n.slice(stem.length)))
     .map((n) => Number(n.slice(stem.length)));
   const n = last.length ? Math.max(...last) + 1 : 1;
-  return `${stem}${String(n).padStart(5, "0")}`;
+  return certificateNumber(prefix, at.getUTCFullYear(), n);
 }
 
 /**

@@ -12,6 +12,7 @@ import { and, asc, desc, eq, gt, inArray, isNull } from "drizzle-orm";
 import type { EvaluationView } from "../../shared/schemas/evaluation.ts";
 import type { BatchCertificateData } from "../../shared/schemas/batch-certificate.ts";
 import {
+  certificateNumber,
   concessionStatement,
   defaultStatementOfConformity,
   needsMeasurementOnlyCaution,
@@ -426,11 +427,16 @@ export async function withdrawCertificate(deps: CertificateDeps & { sqlite: Sqli
   return { number, withdrawn: { at: w.at.toISOString(), reason }, notice: mailSummary(notice) };
 }
 
-/** What the public verification page shows: no contact data of the customer, nor who withdrew. */
+/**
+ * What the public verification page shows for a code (no contact data of the customer, nor who
+ * withdrew), or null when no certificate has it.
+ */
 export function verifyByCode(deps: CertificateDeps, code: string) {
   const c = findByVerificationCode(deps.db, code);
-  if (!c) throw new HttpError(404, "not_found", "No certificate has this verification code; check the link. A certificate was not found.");
-  const signatureValid = verifyCertificate(c.row.canonical, c.row.signature, deps.key.publicKey);
+  if (!c) return null;
+  const signed = JSON.parse(c.row.canonical) as { number?: string; verificationCode?: string };
+  // The signature covers the data; the data must also name this very certificate and code.
+  const signatureValid = verifyCertificate(c.row.canonical, c.row.signature, deps.key.publicKey) && signed.number === c.row.number && signed.verificationCode === c.row.verificationCode;
   let pdfIntact = false;
   try {
     pdfIntact = sha256Hex(readFileSync(pdfPath(deps.dataDir, c.row.pdfKey))) === c.row.pdfSha256;

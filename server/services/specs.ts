@@ -1,7 +1,8 @@
 /** Specifications and their immutable versions. */
 import { randomUUID } from "node:crypto";
 import { and, asc, count, desc, eq, inArray } from "drizzle-orm";
-import type { Family, SpecDetail, SpecInput, SpecSummary, SpecVersion } from "../../shared/schemas/spec.ts";
+import type { Family, SpecDetail, SpecInput, SpecSummary, SpecVersion, TargetKind } from "../../shared/schemas/spec.ts";
+import type { ToleranceUnit } from "../../shared/tuning.ts";
 import type { Db } from "../db/client.ts";
 import { batch, spec, specPartial, specVersion, user } from "../db/schema.ts";
 import { notFound } from "../http-error.ts";
@@ -25,14 +26,19 @@ function toVersion(db: Db, row: VersionRow, createdBy: { id: string; name: strin
     decisionRule: row.decisionRule as SpecInput["decisionRule"],
     strikesRequired: row.strikesRequired,
     lengthMm: row.lengthMm,
+    referencePitchHz: row.referencePitchHz,
     changeNote: row.changeNote,
     partials: partials.map((p) => ({
       label: p.label,
       isFundamental: p.isFundamental,
-      targetKind: p.targetKind as "absolute" | "ratio",
+      targetKind: p.targetKind as TargetKind,
       targetHz: p.targetHz,
+      targetNote: p.targetNote,
       ratio: p.ratio,
       toleranceCents: p.toleranceCents,
+      toleranceUnit: p.toleranceUnit as ToleranceUnit,
+      // Versions written before tolerances could be given in Hz or ppm hold cents only.
+      toleranceValue: p.toleranceValue ?? p.toleranceCents,
       minT60S: p.minT60S,
       minQ: p.minQ,
       maxBeatHz: p.maxBeatHz,
@@ -65,6 +71,7 @@ function insertVersion(db: Db, specId: string, workshopId: string, version: numb
       decisionRule: input.decisionRule,
       strikesRequired: input.strikesRequired,
       lengthMm: input.lengthMm,
+      referencePitchHz: input.referencePitchHz,
       changeNote: input.changeNote,
       createdBy: userId,
     })

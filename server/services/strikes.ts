@@ -4,8 +4,8 @@ import { and, asc, desc, eq, inArray, isNull } from "drizzle-orm";
 import type { AnalysisResult } from "../../shared/schemas/analysis.ts";
 import type { EvaluationView } from "../../shared/schemas/evaluation.ts";
 import type { Support, SpecVersion } from "../../shared/schemas/spec.ts";
-import type { StrikeDetail, StrikeSummary, UnitDetail } from "../../shared/schemas/strike.ts";
-import { evaluateUnit, matchPartials, type EvaluationStrikeInput } from "../../shared/evaluation.ts";
+import type { StrikeDetail, StrikeNoteReading, StrikeSummary, UnitDetail } from "../../shared/schemas/strike.ts";
+import { evaluateUnit, matchStrike, type EvaluationStrikeInput } from "../../shared/evaluation.ts";
 import { can, type RoleName } from "../../shared/permissions.ts";
 import type { EvaluationTraceability, StrikeCorrection } from "../../shared/schemas/instrument.ts";
 import { instrumentNotes, type InstrumentCorrection } from "../../shared/traceability.ts";
@@ -28,19 +28,34 @@ export function findUnit(db: Db, workshopId: string, unitId: string) {
 
 type StrikeRow = typeof strike.$inferSelect;
 
-/** Which spec label each measured partial carries (partial index → label), for lists and the strike page. */
-function specLabels(spec: SpecVersion, partials: AnalysisResult["strikes"][number]["partials"]): Record<number, string> {
+type SegmentPartials = AnalysisResult["strikes"][number]["partials"];
+
+/**
+ * What the spec makes of one strike's partials, for lists and the strike page: the spec label each
+ * measured partial carries (partial index → label), and the strike note when the spec has one.
+ */
+function specReading(spec: SpecVersion, partials: SegmentPartials): { labels: Record<number, string>; strikeNote: StrikeNoteReading | null } {
   const labels: Record<number, string> = {};
-  matchPartials(spec, partials).forEach((idx, req) => {
+  const match = matchStrike(spec, partials);
+  match.indices.forEach((idx, req) => {
     if (idx !== null) labels[idx] = spec.partials[req].label;
   });
-  return labels;
+  const req = spec.partials.findIndex((p) => p.targetKind === "strike_note");
+  const note = req >= 0 ? match.strikeNotes[req] : null;
+  const strikeNote = note
+    ? { label: spec.partials[req].label, frequencyHz: note.frequencyHz, uncertaintyHz: note.uncertaintyHz, targetHz: spec.partials[req].targetHz, misfitCents: note.misfitCents, members: note.members.map(({ index, harmonic, deviationCents }) => ({ index, harmonic, deviationCents })) }
+    : null;
+  return { labels, strikeNote };
 }
 
-function fundamentalOf(result: AnalysisResult | null, labels: Record<number, string>, fundamentalLabel: string | undefined): number | null {
+/** The fundamental found in a strike (the strike note when the spec's fundamental is one), Hz. */
+function fundamentalOf(spec: SpecVersion, result: AnalysisResult | null, reading: ReturnType<typeof specReading> | null): number | null {
   const partials = result?.strikes[0]?.partials;
-  if (!partials?.length) return null;
-  const idx = Object.entries(labels).find(([, l]) => l === fundamentalLabel)?.[0];
+  if (!partials?.length || !reading) return null;
+  const fundamental = spec.partials.find((p) => p.isFundamental);
+  if (!fundamental) return null;
+  if (fundamental.targetKind === "strike_note") return reading.strikeNote?.frequencyHz ?? null;
+  const idx = Object.entries(reading.labels).find(([, l]) => l === fundamental.label)?.[0];
   return idx !== undefined ? partials[Number(idx)].frequencyHz : null;
 }
 
@@ -246,18 +261,17 @@ export function getStrike(db: Db, workshopId: string, strikeId: string): StrikeD
   const m = measurementOf(db, row.id);
   const by = row.uploadedBy ? db.select({ id: user.id, name: user.name }).from(user).where(eq(user.id, row.uploadedBy)).get() ?? null : null;
   let result: AnalysisResult | null = null;
-  const labels: Record<number, string> = {};
+  let reading: ReturnType<typeof specReading> | null = null;
   if (m) {
     const stored = m.result as AnalysisResult;
     const plots = (m.plot ?? []) as (AnalysisResult["strikes"][number]["plot"] | null)[];
     result = { ...stored, strikes: stored.strikes.map((seg, i) => ({ ...seg, plot: plots[i] ?? undefined })) };
-    Object.assign(labels, specLabels(spec, stored.strikes[0]?.partials ?? []));
+    reading = specReading(spec, stored.strikes[0]?.partials ?? []);
   }
-  const fundamentalLabel = spec.partials.find((p) => p.isFundamental)?.label;
   const voided = voidsByUnit(db, [u.id]).get(u.id)?.find((v) => v.strikeId === row.id);
   const { correction, appliedIn } = strikeCorrectionOf(db, workshopId, row);
   return {
-    ...toSummary(row, by, fundamentalOf(result, labels, fundamentalLabel), voided, instrumentNames(db, workshopId, [row.recorderId, row.thermometerId])),
+    ...toSummary(row, by, fundamentalOf(spec, result, reading), voided, instrumentNames(db, workshopId, [row.recorderId, row.thermometerId])),
     correction,
     appliedIn,
     analyserVersion: m?.analyserVersion ?? null,
@@ -268,7 +282,9 @@ export function getStrike(db: Db, workshopId: string, strikeId: string): StrikeD
     warnings: result?.warnings ?? [],
     strikes: result?.strikes.map(({ plot: _plot, ...seg }) => seg) ?? [],
     unit: { id: u.id, serial: u.serial, batchId: b.id, batchCode: b.code },
-    labels,
+    labels: reading?.labels ?? {},
+    strikeNote: reading?.strikeNote ?? null,
+    referencePitchHz: spec.referencePitchHz,
   };
 }
 
@@ -290,7 +306,6 @@ export function strikeFile(db: Db, workshopId: string, strikeId: string) {
 export function getUnit(db: Db, workshopId: string, unitId: string): UnitDetail {
   const u = findUnit(db, workshopId, unitId);
   const { batch: b, spec } = specForUnit(db, workshopId, u);
-  const fundamentalLabel = spec.partials.find((p) => p.isFundamental)?.label;
   const rows = db
     .select({ s: strike, by: { id: user.id, name: user.name } })
     .from(strike)
@@ -307,8 +322,8 @@ export function getUnit(db: Db, workshopId: string, unitId: string): UnitDetail 
   const names = instrumentNames(db, workshopId, rows.flatMap((r) => [r.s.recorderId, r.s.thermometerId]));
   const strikes = rows.map(({ s, by }) => {
     const result = results.get(s.id) ?? null;
-    const labels = result ? specLabels(spec, result.strikes[0]?.partials ?? []) : {};
-    return toSummary(s, by?.id ? by : null, fundamentalOf(result, labels, fundamentalLabel), voids.get(s.id), names);
+    const reading = result ? specReading(spec, result.strikes[0]?.partials ?? []) : null;
+    return toSummary(s, by?.id ? by : null, fundamentalOf(spec, result, reading), voids.get(s.id), names);
   });
   const evals = latestEvaluations(db, [unitId]);
   const ev: EvaluationView | null = evals.get(unitId) ?? null;
@@ -331,7 +346,7 @@ export function getUnit(db: Db, workshopId: string, unitId: string): UnitDetail 
     customerEmail: u.customerEmail,
     createdAt: u.createdAt.toISOString(),
     batch: { id: b.id, code: b.code, state: b.state },
-    spec: { id: spec.specId, name: spec.name, version: spec.version, versionId: spec.id, family: spec.family },
+    spec: { id: spec.specId, name: spec.name, version: spec.version, versionId: spec.id, family: spec.family, referenceTemperatureC: spec.referenceTemperatureC },
     strikes,
     evaluation: ev,
     dispositions: dispositions.map((d) => ({ ...d, supersededById: supersededBy.get(d.id) ?? null })),

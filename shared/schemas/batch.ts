@@ -68,7 +68,10 @@ export type LedgerRow = {
   pendingStrikes: number;
   lastMeasuredAt: string | null;
   verdict: Verdict | null;
+  /** The fundamental as evaluated (median of the strikes, corrected to the reference temperature when they had one), Hz. */
   fundamentalHz: number | null;
+  /** True when fundamentalHz was corrected to the spec's reference temperature. */
+  temperatureCorrected: boolean;
   deviationCents: number | null;
   overtoneRatio: number | null;
   t60S: number | null;
@@ -102,6 +105,8 @@ export type BatchDetail = BatchSummary & {
   /** Tolerance of the fundamental, cents, and minimum T60, s, from the spec version (for charts). */
   fundamentalToleranceCents: number | null;
   minT60S: number | null;
+  /** The spec version's reference temperature, °C (corrected frequencies are at it). */
+  referenceTemperatureC: number;
 };
 
 export const dispositionDecisions = ["use_as_is", "rework", "scrap", "retest"] as const;

@@ -276,3 +276,7 @@ export type CertificateSummary = CertificateSummaryBase & {
   supersededBy: string | null;
   state: "current" | "superseded" | "withdrawn";
 };
+/** A certificate number: the workshop's prefix, the year of issue and a five-digit sequence (BTW-2026-00001). */
+export function certificateNumber(prefix: string, year: number, sequence: number): string {
+  return `${prefix}-${year}-${String(sequence).padStart(5, "0")}`;
+}

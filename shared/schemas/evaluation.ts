@@ -56,12 +56,20 @@ export type RequirementResult = {
   note: string | null;
 };
 
+/** The trade's direction for one partial of a bell out of tolerance. */
+export type PartialGuidance = { label: string; direction: "raise" | "lower"; cents: number; remedy: string };
+
 export type TuningGuidance = {
+  /** Which way `label` (the fundamental, or for a bell the first partial out of tolerance) must move. */
   direction: "raise" | "lower";
   cents: number;
   remedy: string;
   estimate: string | null;
   caution: string;
+  /** The partial the guidance is about (older evaluations: the fundamental, not named). */
+  label?: string;
+  /** Bells: a direction for each named partial out of tolerance. */
+  partials?: PartialGuidance[];
 };
 
 export type EvaluationView = {

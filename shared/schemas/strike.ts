@@ -83,6 +83,22 @@ export type StrikeDetail = StrikeSummary & {
    */
   correction: StrikeCorrection;
   appliedIn: { evaluationId: string; at: string } | null;
+  /** The strike note read from result.strikes[0] when the spec targets one, with the partials it was read from. */
+  strikeNote: StrikeNoteReading | null;
+  /** The spec's reference pitch (A4, Hz), for naming notes. */
+  referencePitchHz: number;
+};
+
+/** A strike note as read from one strike: the heard pitch and the partials (indices, harmonic numbers) it came from. */
+export type StrikeNoteReading = {
+  label: string;
+  frequencyHz: number;
+  /** Standard uncertainty (k = 1) from the partials' fits, Hz. */
+  uncertaintyHz: number;
+  targetHz: number | null;
+  /** RMS misfit of the partials from the 2 : 3 : 4 series, cents. */
+  misfitCents: number;
+  members: { index: number; harmonic: number; deviationCents: number }[];
 };
 
 export type UnitDetail = {
@@ -92,7 +108,7 @@ export type UnitDetail = {
   customerEmail: string | null;
   createdAt: string;
   batch: { id: string; code: string; state: BatchState };
-  spec: { id: string; name: string; version: number; versionId: string; family: Family };
+  spec: { id: string; name: string; version: number; versionId: string; family: Family; referenceTemperatureC: number };
   strikes: StrikeSummary[];
   evaluation: EvaluationView | null;
   dispositions: {

@@ -61,7 +61,7 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
               path: paths.public.verify.path,
               loader: verifyLoader(queryClient),
               element: <VerifyRoute />,
-              errorElement: <RouteError notFoundHint="Check that the whole verification link (or the QR code on the certificate) was used. If it was, the certificate is not genuine: ask the workshop that issued it." />,
+              errorElement: <RouteError />,
             },
           ],
         },
@@ -111,7 +111,7 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
 }
 
 function notFoundLoader(): never {
-  throw new ApiError(404, "not_found", "There is no page at this address. Check the link, or go back to the dashboard.");
+  throw new ApiError(404, "not_found", "There is no page at this address. Check the link.");
 }
 
 export function createAppRouter(queryClient: QueryClient) {

@@ -15,9 +15,11 @@ export type Me = {
   activeWorkshop: WorkshopMembership | null;
 };
 
+/** Who is signed in, or null: the server answers `{ user: null }` (not a 401) when nobody is. */
 export async function getMe(): Promise<Me | null> {
   try {
-    return await api.get<Me>("/api/me");
+    const me = await api.get<Me | { user: null }>("/api/me");
+    return me.user ? (me as Me) : null;
   } catch (error) {
     if (isApiError(error) && error.status === 401) return null;
     throw error;

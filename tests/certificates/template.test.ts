@@ -33,7 +33,8 @@ function requiredItems(d: CertificateData): [string, string][] {
     ["measurement date (from)", d.measuredFrom],
     ["measurement date (to)", d.measuredTo],
     ["issue date and time", "Date of issue 2026-11-30 14:05 UTC"],
-    ["results: measured value unit", "Measured (Hz)"],
+    // A frequency corrected to the reference temperature says so in its column header.
+    ["results: measured value unit", d.conditions.referenceTemperatureC != null ? `Measured at ${d.conditions.referenceTemperatureC} °C (Hz)` : "Measured (Hz)"],
     ["results: expanded uncertainty with k", "U, k = 2 (Hz)"],
     ["results: target unit", "Target (Hz)"],
     ["results: tolerance unit", "Tolerance (cents)"],
@@ -239,5 +240,41 @@ describe("formatWithUncertainty (JCGM 100:2008 GUM §7.2.6: U to at most two sig
     expect(formatWithUncertainty(440.31234, 0.0234)).toEqual({ value: "440.312", u: "0.023" });
     expect(formatWithUncertainty(2758.9, 0.41)).toEqual({ value: "2758.90", u: "0.41" });
     expect(formatWithUncertainty(12345.6, 12)).toEqual({ value: "12346", u: "12" });
+  });
+});
+
+describe("certificate layout: one page when the content fits, breaks between sections when it does not", () => {
+  /** Which page (1-based) holds `text`, or 0. */
+  const pageOf = (parsed: ParsedPdf, text: string) => parsed.pages.findIndex((p) => squash(p).includes(squash(text))) + 1;
+
+  it("sets a two-partial fork certificate with the measurement-only caution on one page (it spilled its last note before)", async () => {
+    const data = buildCertificateData({ flags: { measurementOnlyCaution: true } });
+    const parsed = await parsePdf(await renderCertificatePdf(data));
+    expect(parsed.total).toBe(1);
+    expect(parsed.pages[0]).toContain(FINE_PRINT.endMark);
+    expect(squash(parsed.pages[0])).toContain(squash(FINE_PRINT.signature));
+  });
+
+  it("keeps every section whole when it takes two pages: each heading on the page of its own text", async () => {
+    const results = Array.from({ length: 7 }, (_, i) => buildResult({ label: `Partial ${i + 1}`, measuredHz: 440 * (i + 1) * 1.001, targetHz: 440 * (i + 1), minT60S: null }));
+    const data = buildCertificateData({ results, flags: { measurementOnlyCaution: true }, amends: { number: "HB-2026-000146", reason: "The customer's name was misspelt on the earlier certificate; reissued with the name corrected and nothing else changed." } });
+    const parsed = await parsePdf(await renderCertificatePdf(data));
+    expect(parsed.total).toBe(2);
+    // Heading → a sentence of that section's own text.
+    const sections: [string, string][] = [
+      ["Decision rule", decisionRuleWords[data.decisionRule].slice(0, 60)],
+      ["Statement of conformity", data.statementOfConformity.slice(0, 60)],
+      ["Authorisation", `${data.authorisedBy.name}, ${data.authorisedBy.role}`],
+      ["Notes", FINE_PRINT.itemOnly],
+      ["Notes", FINE_PRINT.signature.slice(0, 60)],
+      ["Notes", FINE_PRINT.endMark],
+      ["Method", data.method.summary.slice(0, 60)],
+    ];
+    for (const [heading, text] of sections) {
+      expect(pageOf(parsed, text), `"${text}" is not on the page of its heading "${heading}"`).toBe(pageOf(parsed, heading === "Notes" ? FINE_PRINT.itemOnly : heading));
+    }
+    // The results table (shorter than a page) is whole on one page, not split with a "continued" header.
+    expect(parsed.text).not.toContain("Results, continued");
+    expect(pageOf(parsed, "Partial 1")).toBe(pageOf(parsed, "Partial 7"));
   });
 });

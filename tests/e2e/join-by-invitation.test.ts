@@ -77,7 +77,8 @@ describe("joining a workshop by invitation", () => {
   it("an unknown invitation says plainly that it was not found", async () => {
     const { page } = e2e.browser;
     await page.goto(`${e2e.server.baseUrl}/invite/no-such-invitation`);
-    await page.getByRole("heading", { name: "Not found" }).waitFor();
+    await page.getByRole("heading", { name: "This invitation link does not work" }).waitFor();
+    await page.getByText("ask the workshop owner to send a new invitation").waitFor();
     await screenshot(page, "e2e-invitation-not-found");
   });
 

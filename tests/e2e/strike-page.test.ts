@@ -217,7 +217,7 @@ describe("the strike page", () => {
     }
   });
 
-  it("overlays a unit's strikes on its page, named by support and time, with each partial's shift", async () => {
+  it("overlays a unit's strikes on its page, named by file, time and support, with each partial's shift", async () => {
     const { page } = e2e.browser;
     // A second strike of the seeded unit, suspended this time: 3 cents sharp, same overtone ratio.
     const bytes = Array.from(forkWav({ frequencyHz: strike.result!.strikes[0].partials[0].frequencyHz * 2 ** (3 / 1200), seed: 31 }));
@@ -236,8 +236,9 @@ describe("the strike page", () => {
     const compare = page.locator('[data-testid="compare-strikes"]');
     await compare.waitFor({ timeout: 60_000 });
     const headers = await compare.getByRole("table").getByRole("columnheader").allTextContents();
-    expect(headers[1]).toMatch(/^Held in hand · /);
-    expect(headers[2]).toMatch(/^Suspended · /);
+    // Each strike by its file name, time and support (two strikes may share the support, never the file and time).
+    expect(headers[1]).toMatch(new RegExp(`^${strike.originalName.replace(".", "\\.")} · .+ · Held in hand$`));
+    expect(headers[2]).toMatch(/^suspended-take\.wav · .+ · Suspended$/);
     // Both spectra drawn (#1f5d65 first, #9c3526 second) on the overlay.
     expect(await eventuallyPositive(() => colouredPixels(page, '[data-testid="compare-strikes"] .tl-chart', ["#9c3526"]), "second spectrum")).toBeGreaterThan(300);
     // The fundamental moved by about +3 cents against the first strike (synthesised; the analysis is exact to well under a cent here).

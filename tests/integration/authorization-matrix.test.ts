@@ -28,7 +28,8 @@ const WHO: Who[] = ["anonymous", "maker", "qa", "owner", "other"];
 
 export const MATRIX: Row[] = [
   { method: "GET", path: "/health", url: () => "/api/health", expect: [200, 200, 200, 200, 200] },
-  { method: "GET", path: "/me", url: () => "/api/me", expect: [401, 200, 200, 200, 200] },
+  // Signed out, /me answers { user: null } rather than an error (no console error on public pages).
+  { method: "GET", path: "/me", url: () => "/api/me", expect: [200, 200, 200, 200, 200] },
   { method: "GET", path: "/invitations/:id", url: (i) => `/api/invitations/${i.invitation}`, expect: [200, 200, 200, 200, 200] },
   { method: "GET", path: "/workshop", url: () => "/api/workshop", expect: [401, 200, 200, 200, 200] },
   { method: "PUT", path: "/workshop/profile", url: () => "/api/workshop/profile", body: { certificatePrefix: "lower case" }, expect: [401, 403, 403, 400, 400] },
@@ -41,6 +42,10 @@ export const MATRIX: Row[] = [
   { method: "GET", path: "/specs", url: () => "/api/specs", expect: [401, 200, 200, 200, 200] },
   { method: "POST", path: "/specs", url: () => "/api/specs", body: {}, expect: [401, 403, 400, 400, 400] },
   { method: "GET", path: "/specs/:id", url: (i) => `/api/specs/${i.spec}`, expect: [401, 200, 200, 200, 404] },
+  { method: "GET", path: "/specs/:id/export", url: (i) => `/api/specs/${i.spec}/export`, expect: [401, 200, 200, 200, 404] },
+  // No file attached: the guard lets QA and owners through to the upload's own 400.
+  { method: "POST", path: "/specs/master-draft", url: () => "/api/specs/master-draft", multipart: true, expect: [401, 403, 400, 400, 400] },
+  { method: "POST", path: "/specs/import", url: () => "/api/specs/import", body: {}, expect: [401, 403, 400, 400, 400] },
   { method: "POST", path: "/specs/:id/versions", url: (i) => `/api/specs/${i.spec}/versions`, body: {}, expect: [401, 403, 400, 400, 404] },
   { method: "GET", path: "/specs/:id/versions/:versionId/predicted-modes", url: (i) => `/api/specs/${i.spec}/versions/${i.specVersion}/predicted-modes`, expect: [401, 200, 200, 200, 404] },
   // An empty JSON body fails validation (no modes): the guard let the role through, nothing stored.

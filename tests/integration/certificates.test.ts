@@ -79,8 +79,12 @@ describe("certificates", () => {
     t.runtime.sqlite.prepare("UPDATE certificate SET canonical = ? WHERE id = ?").run(row.canonical, row.id);
   });
 
-  it("answers an unknown code with 404", async () => {
+  it("answers an unknown code with 404, and the verification page (?notFound=ok) with 200 { found: false }", async () => {
     expect((await request(t.app).get("/api/verify/AAAAAAAAAAAAAAAAAAAAAAAA")).status).toBe(404);
+    const page = await request(t.app).get("/api/verify/AAAAAAAAAAAAAAAAAAAAAAAA?notFound=ok");
+    expect(page.status).toBe(200);
+    expect(page.body).toEqual({ found: false });
+    expect((await request(t.app).get("/api/verify/not-even-a-code?notFound=ok")).body).toEqual({ found: false });
   });
 
   it("amends: a new number that names the one it amends; the earlier one is superseded and still retrievable", async () => {

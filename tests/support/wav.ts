@@ -17,3 +17,5 @@ export function forkWav(o: { frequencyHz: number; seed?: number; durationS?: num
     ],
   });
 }
+
+export { bellStrikeWav, bowlStrikeWav, tubeStrikeWav } from "../../seeds/synth.ts";

@@ -5,6 +5,7 @@
 import { Navigate, isRouteErrorResponse, useLocation, useRouteError } from "react-router";
 import { paths } from "@/config/paths";
 import { fallbackMessage, isApiError } from "@/lib/api-client";
+import { useMe } from "@/lib/auth";
 import { ButtonLink } from "@/components/ui/button";
 import { Wordmark } from "@/components/ui/wordmark";
 
@@ -12,7 +13,7 @@ function statusOf(error: unknown): { status: number; message: string } {
   if (isApiError(error)) return { status: error.status, message: error.message };
   if (isRouteErrorResponse(error)) {
     const message = typeof error.data === "string" && error.data ? error.data : fallbackMessage(error.status);
-    return { status: error.status, message: error.status === 404 ? "There is no page at this address. Check the link, or go back to the dashboard." : message };
+    return { status: error.status, message: error.status === 404 ? "There is no page at this address. Check the link." : message };
   }
   return { status: 500, message: "This page hit an unexpected problem. Reload the page; if it keeps happening, tell the workshop owner." };
 }
@@ -28,6 +29,8 @@ export function RouteError({ embedded = false, notFoundHint }: Props) {
   const error = useRouteError();
   const location = useLocation();
   const { status, message } = statusOf(error);
+  // Someone who is not signed in has no dashboard to go to: offer signing in instead.
+  const signedIn = Boolean(useMe().data);
 
   if (status === 401) {
     return <Navigate to={paths.auth.signIn.getHref(location.pathname + location.search)} replace />;
@@ -47,9 +50,15 @@ export function RouteError({ embedded = false, notFoundHint }: Props) {
         {status === 404 && notFoundHint ? <p className="mt-2 text-ink-soft">{notFoundHint}</p> : null}
         {status !== 403 && status !== 404 ? <p className="mt-2 text-caption text-ink-faint">Status {status || "no answer"}</p> : null}
         <div className="mt-5 flex flex-wrap gap-2">
-          <ButtonLink to={paths.app.root.getHref()} variant="primary">
-            Go to the dashboard
-          </ButtonLink>
+          {signedIn ? (
+            <ButtonLink to={paths.app.root.getHref()} variant="primary">
+              Go to the dashboard
+            </ButtonLink>
+          ) : (
+            <ButtonLink to={paths.auth.signIn.getHref()} variant="primary">
+              Sign in
+            </ButtonLink>
+          )}
           {status !== 403 && status !== 404 ? (
             <ButtonLink to={location.pathname + location.search} reloadDocument>
               Reload

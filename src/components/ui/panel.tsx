@@ -16,7 +16,7 @@ export function PageHeader({ title, description, actions }: { title: string; des
         <h1 className="text-heading font-semibold text-ink">{title}</h1>
         {description ? <p className="mt-1 text-lead text-ink-soft">{description}</p> : null}
       </div>
-      {actions ? <div className="flex gap-2">{actions}</div> : null}
+      {actions ? <div className="flex flex-wrap gap-2">{actions}</div> : null}
     </header>
   );
 }

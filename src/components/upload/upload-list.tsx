@@ -25,7 +25,7 @@ export function UploadList<T extends UploadItem>({ label, items, status }: { lab
       {items.map((item) => (
         <li key={item.key} className="flex flex-wrap items-center justify-between gap-3 px-4 py-3">
           <span className="min-w-0">
-            <span className="block truncate font-medium">{item.name}</span>
+            <span className="block [overflow-wrap:anywhere] font-medium">{item.name}</span>
             {item.state === "refused" ? (
               <span role="alert" className="block text-caption text-rust-700">
                 {item.error}

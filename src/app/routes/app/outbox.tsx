@@ -26,7 +26,7 @@ export function OutboxRoute() {
         title="Outbox"
         description={
           all
-            ? "Every e-mail Tinelog has sent for this workshop. In development the mail is captured here instead of being delivered."
+            ? "Mail sent by Tinelog for this workshop — invitations and certificates — exactly as it went out, with its attachments."
             : "The certificate e-mails sent for this workshop, and the notices of withdrawn certificates. Invitations are the owner's to read."
         }
       />

@@ -49,8 +49,8 @@ export function AppRoot() {
       account={
         <div className="flex flex-wrap items-center justify-between gap-3 md:flex-col md:items-stretch">
           <div className="min-w-0">
-            <p className="truncate font-semibold">{me.user.name}</p>
-            <p className="truncate text-caption text-ink-soft">{me.user.email}</p>
+            <p className="[overflow-wrap:anywhere] font-semibold">{me.user.name}</p>
+            <p className="[overflow-wrap:anywhere] text-caption text-ink-soft">{me.user.email}</p>
             <p className="mt-1">
               <Badge tone="steel">{roleLabels[role] ?? role}</Badge>
             </p>

@@ -10,12 +10,12 @@ import { paths } from "@/config/paths";
 import { SignInForm } from "@/features/auth/components/sign-in-form";
 import { SignUpForm } from "@/features/auth/components/sign-up-form";
 import { useAcceptInvitation } from "@/features/invitations/api/accept-invitation";
-import { getInvitationQueryOptions, useInvitation, type PublicInvitation } from "@/features/invitations/api/get-invitation";
+import { getInvitationQueryOptions, invitationFound, useInvitation, type PublicInvitation } from "@/features/invitations/api/get-invitation";
 import { InvitationSummary } from "@/features/invitations/components/invitation-summary";
 import { getMeQueryOptions, useMe, useSignOut } from "@/lib/auth";
 
 export const invitationLoader = (queryClient: QueryClient) => async ({ params }: LoaderFunctionArgs) => {
-  // A missing or unknown invitation is a 404 from the API; the error element says so plainly.
+  // An unknown invitation comes back as { found: false }; the page says so plainly.
   await Promise.all([queryClient.ensureQueryData(getInvitationQueryOptions(params.id ?? "")), queryClient.ensureQueryData(getMeQueryOptions())]);
   return null;
 };
@@ -34,6 +34,22 @@ export function InvitationRoute() {
   if (invitation.isPending || me.isPending) return <Spinner label="Loading the invitation…" />;
   if (invitation.isError) throw invitation.error;
   if (me.isError) throw me.error;
+  if (!invitationFound(invitation.data)) {
+    return (
+      <AuthLayout title="This invitation link does not work" intro="No invitation matches it: it may have been cut short when copied, or replaced by a newer invitation.">
+        <div className="flex flex-col gap-4">
+          <p>Open the link from the invitation e-mail again. If it still does not work, ask the workshop owner to send a new invitation.</p>
+          {me.data ? null : (
+            <p>
+              <ButtonLink to={paths.auth.signIn.getHref()} variant="secondary">
+                Sign in with an account you already have
+              </ButtonLink>
+            </p>
+          )}
+        </div>
+      </AuthLayout>
+    );
+  }
 
   const expired = new Date(invitation.data.expiresAt).getTime() <= Date.now();
   return (

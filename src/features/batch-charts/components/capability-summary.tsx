@@ -33,7 +33,7 @@ export function CapabilitySummary({ batch, deviations }: { batch: BatchDetail; d
   return (
     <section aria-labelledby="capability-heading" className="tl-capability">
       <h3 id="capability-heading" className="text-body font-semibold">Capability</h3>
-      <p className="text-caption text-ink-soft">σ̂ from the moving ranges (MR̄/1.128). 1.33 or more is the usual aim (common practice, no single published source).</p>
+      <p className="text-caption text-ink-soft">σ̂ from the moving ranges (MR̄/1.128). 1.33 or more is the usual aim — a typical target; agree yours with the customer.</p>
       <dl className="mt-3 flex flex-col gap-2" data-testid="capability">
         <Index name="Cp" hint={`deviation against ±${tol ?? "?"} cents`} outcome={pitch} pick={(i) => i.cp} />
         <Index name="Cpk" hint="deviation, nearer limit" outcome={pitch} pick={(i) => i.cpk} />

@@ -2,19 +2,26 @@
 import clsx from "clsx";
 import type { FormEvent } from "react";
 import { useState } from "react";
-import { expandSerialRange, SerialRangeError, splitSerialList } from "@shared/serials";
+import { expandSerialRange, offsetSerial, SerialRangeError, splitSerialList } from "@shared/serials";
 import { Alert } from "@/components/ui/alert";
 import { Button } from "@/components/ui/button";
 import { InputField, TextAreaField } from "@/components/ui/field";
 import { useAddUnits } from "../api/add-units";
 
-export function AddUnitsForm({ workshopId, batchId }: { workshopId: string; batchId: string }) {
+/**
+ * `lastSerial` (the batch's last unit) and `remaining` (units still to add for the quantity) make
+ * the placeholders the serials that come next, so the example is the batch's own.
+ */
+export function AddUnitsForm({ workshopId, batchId, lastSerial = null, remaining = 0 }: { workshopId: string; batchId: string; lastSerial?: string | null; remaining?: number }) {
   const add = useAddUnits(workshopId, batchId);
   const [mode, setMode] = useState<"range" | "list">("range");
   const [from, setFrom] = useState("");
   const [to, setTo] = useState("");
   const [list, setList] = useState("");
   const [added, setAdded] = useState<number | null>(null);
+
+  const firstPlaceholder = (lastSerial && offsetSerial(lastSerial, 1)) || "F-0001";
+  const lastPlaceholder = offsetSerial(from.trim() || firstPlaceholder, Math.max(1, remaining) - 1) ?? firstPlaceholder;
 
   let count = 0;
   let problem: string | null = null;
@@ -63,8 +70,8 @@ export function AddUnitsForm({ workshopId, batchId }: { workshopId: string; batc
       </div>
       {mode === "range" ? (
         <div className="grid gap-3 sm:grid-cols-2">
-          <InputField label="First serial" placeholder="F-0017" value={from} onChange={(e) => setFrom(e.target.value)} />
-          <InputField label="Last serial" placeholder="F-0020" value={to} onChange={(e) => setTo(e.target.value)} />
+          <InputField label="First serial" placeholder={firstPlaceholder} value={from} onChange={(e) => setFrom(e.target.value)} />
+          <InputField label="Last serial" placeholder={lastPlaceholder} value={to} onChange={(e) => setTo(e.target.value)} />
         </div>
       ) : (
         <TextAreaField label="Serials" hint="One per line, or separated by commas." rows={3} value={list} onChange={(e) => setList(e.target.value)} />

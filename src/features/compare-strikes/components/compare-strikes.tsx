@@ -33,9 +33,12 @@ export type ComparedStrike = {
   f0Index: number;
 };
 
-/** "Suspended · 3 Dec 2026, 10:04" — the legend says how the unit was held and when. */
+/**
+ * "F-0004-b.wav · 3 Dec 2026, 10:04 · Suspended" — which recording, when, and how the unit was
+ * held: two strikes of a unit often share the support, never the file and the time.
+ */
 export function strikeName(s: StrikeDetail): string {
-  return `${s.support ? supportLabels[s.support] : "Support not given"} · ${formatDateTime(s.uploadedAt)}`;
+  return `${s.originalName} · ${formatDateTime(s.uploadedAt)} · ${s.support ? supportLabels[s.support] : "support not given"}`;
 }
 
 export function CompareStrikes({ unit }: { unit: UnitDetail }) {
@@ -212,8 +215,11 @@ function CompareView({ strikes, fundamentalLabel }: { strikes: ComparedStrike[];
                 <th scope="col" className="py-2 pr-3">Partial</th>
                 {strikes.map((s) => (
                   <th key={s.detail.id} scope="col" className="py-2 pr-3 font-semibold">
-                    <span className="mr-1.5 inline-block h-1 w-5 align-middle" style={{ background: s.colour }} aria-hidden="true" />
-                    {s.name}
+                    {/* The same colour and dash as the strike's line in both charts and their keys. */}
+                    <svg width="22" height="8" aria-hidden="true" className="mr-1.5 inline-block align-middle">
+                      <line x1="1" y1="4" x2="21" y2="4" stroke={s.colour} strokeWidth={2} strokeDasharray={s.dash?.join(" ")} />
+                    </svg>
+                    <span className="break-words">{s.name}</span>
                   </th>
                 ))}
               </tr>

@@ -13,9 +13,12 @@ export type PublicInvitation = {
   expiresAt: string;
 };
 
+/** The invitation, or `{ found: false }` (asked with ?notFound=ok, so an old link logs no error). */
 export function getInvitation(id: string) {
-  return api.get<PublicInvitation>(`/api/invitations/${encodeURIComponent(id)}`);
+  return api.get<PublicInvitation | { found: false }>(`/api/invitations/${encodeURIComponent(id)}?notFound=ok`);
 }
+
+export const invitationFound = (v: PublicInvitation | { found: false } | undefined): v is PublicInvitation => !!v && !("found" in v);
 
 export const getInvitationQueryOptions = (id: string) => queryOptions({ queryKey: ["invitations", id], queryFn: () => getInvitation(id) });
 

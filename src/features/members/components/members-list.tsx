@@ -38,7 +38,7 @@ function MemberRow({ member, workshopId, isSelf, canManage }: { member: Member; 
         <p className="font-semibold text-ink">
           {member.user.name} {isSelf ? <Badge tone="steel">You</Badge> : null}
         </p>
-        <p className="truncate text-caption text-ink-soft">{member.user.email}</p>
+        <p className="[overflow-wrap:anywhere] text-caption text-ink-soft">{member.user.email}</p>
         {error ? (
           <p role="alert" className="mt-1 text-caption text-rust-700">
             {error.message}

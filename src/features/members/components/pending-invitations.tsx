@@ -24,7 +24,7 @@ export function PendingInvitations({ workshopId }: { workshopId: string }) {
         {invitations.data.map((invitation) => (
           <li key={invitation.id} className="flex flex-col gap-2 py-4 sm:flex-row sm:items-center sm:justify-between">
             <div className="min-w-0">
-              <p className="truncate font-semibold">{invitation.email}</p>
+              <p className="[overflow-wrap:anywhere] font-semibold">{invitation.email}</p>
               <p className="text-caption text-ink-soft">
                 <Badge tone="ochre">{roleLabels[invitation.role] ?? invitation.role}</Badge> · expires {formatDateTime(invitation.expiresAt)}
               </p>

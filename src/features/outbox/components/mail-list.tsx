@@ -29,8 +29,8 @@ export function MailList({ workshopId, messageHref, emptyAction }: Props) {
             className="flex flex-col gap-0.5 rounded-control px-2 py-3 hover:bg-steel-50 sm:flex-row sm:items-baseline sm:justify-between sm:gap-4"
           >
             <span className="min-w-0">
-              <span className="block truncate font-semibold text-steel-700">{message.subject || "(no subject)"}</span>
-              <span className="block truncate text-caption text-ink-soft">To {message.to.join(", ")}</span>
+              <span className="block [overflow-wrap:anywhere] font-semibold text-steel-700">{message.subject || "(no subject)"}</span>
+              <span className="block [overflow-wrap:anywhere] text-caption text-ink-soft">To {message.to.join(", ")}</span>
             </span>
             <span className="shrink-0 text-caption text-ink-faint">
               {formatDateTime(message.date)}

@@ -64,7 +64,7 @@ export function MailMessageView({ workshopId, message }: { workshopId: string; m
             {message.attachments.map((attachment) => (
               <li key={attachment.index} className="flex flex-wrap items-center justify-between gap-2 px-4 py-3">
                 <span className="min-w-0">
-                  <span className="block truncate font-medium">{attachment.filename || `attachment-${attachment.index}`}</span>
+                  <span className="block [overflow-wrap:anywhere] font-medium">{attachment.filename || `attachment-${attachment.index}`}</span>
                   <span className="block text-caption text-ink-faint">
                     {attachment.contentType} · {formatBytes(attachment.size)} · SHA-256 {attachment.sha256.slice(0, 12)}…
                   </span>

@@ -1,5 +1,6 @@
 /** Every version of a spec, newest first: its partials, who made it and when, and the change note. */
-import { decisionRuleLabels, familyLabels, type SpecDetail, type SpecVersion } from "@shared/schemas/spec";
+import { decisionRuleLabels, familyLabels, nominalTargetHz, type SpecDetail, type SpecPartial, type SpecVersion } from "@shared/schemas/spec";
+import { describeTolerance, prettyNoteName } from "@shared/tuning";
 import { Badge } from "@/components/ui/panel";
 import { formatDateTime, formatNumber } from "@/lib/format";
 
@@ -34,6 +35,8 @@ function VersionCard({ version, current }: { version: SpecVersion; current: bool
         <dd>{version.referenceTemperatureC} °C</dd>
         <dt className="text-ink-faint">Temperature coefficient</dt>
         <dd>{formatCoefficient(version.tempCoefficientPerC)}</dd>
+        <dt className="text-ink-faint">Reference pitch</dt>
+        <dd>A4 = {version.referencePitchHz} Hz</dd>
         <dt className="text-ink-faint">Strikes per unit</dt>
         <dd>{version.strikesRequired}</dd>
         <dt className="text-ink-faint">Decision rule</dt>
@@ -59,12 +62,14 @@ function VersionCard({ version, current }: { version: SpecVersion; current: bool
           </thead>
           <tbody className="divide-y divide-line">
             {version.partials.map((p) => (
-              <tr key={p.label}>
+              <tr key={p.label} className="align-top">
                 <td className="py-1.5 pr-3 font-medium">
                   {p.label} {p.isFundamental && p.label.trim().toLowerCase() !== "fundamental" ? <Badge>Fundamental</Badge> : null}
                 </td>
-                <td className="py-1.5 pr-3 tabular-nums">{p.targetKind === "absolute" ? `${formatNumber(p.targetHz, 3)} Hz` : `${formatNumber(p.ratio, 3)} × f₁`}</td>
-                <td className="py-1.5 pr-3 tabular-nums">± {p.toleranceCents} ¢</td>
+                <td className="py-1.5 pr-3 tabular-nums">
+                  <Target p={p} referencePitchHz={version.referencePitchHz} />
+                </td>
+                <td className="py-1.5 pr-3 tabular-nums">{describeTolerance(p.toleranceCents, nominalTargetHz(p, fundamentalHz(version)), p.toleranceUnit, p.toleranceValue)}</td>
                 <td className="py-1.5 pr-3 tabular-nums">{p.minT60S != null ? `${p.minT60S} s` : "—"}</td>
                 <td className="py-1.5 pr-3 tabular-nums">{p.minQ ?? "—"}</td>
                 <td className="py-1.5 pr-3 tabular-nums">{p.maxBeatHz != null ? `${p.maxBeatHz} Hz` : "—"}</td>
@@ -75,6 +80,23 @@ function VersionCard({ version, current }: { version: SpecVersion; current: bool
         </table>
       </div>
     </article>
+  );
+}
+
+function fundamentalHz(v: SpecVersion): number | null {
+  return v.partials.find((p) => p.isFundamental)?.targetHz ?? null;
+}
+
+/** "C5 · 523.251 Hz", "strike note C5 · 523.251 Hz", "2.757 × f₁". */
+function Target({ p, referencePitchHz }: { p: SpecPartial; referencePitchHz: number }) {
+  if (p.targetKind === "ratio") return <>{formatNumber(p.ratio, 3)} × f₁</>;
+  return (
+    <>
+      {p.targetKind === "strike_note" ? "strike note " : ""}
+      {p.targetNote ? `${prettyNoteName(p.targetNote)} · ` : ""}
+      {formatNumber(p.targetHz, 3)} Hz
+      {p.targetNote ? <span className="block text-ink-faint">at A4 = {referencePitchHz} Hz</span> : null}
+    </>
   );
 }
 

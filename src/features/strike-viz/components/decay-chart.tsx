@@ -130,7 +130,6 @@ export function DecayChart({ partial, envelope, label, height = 220 }: { partial
         { label: "Level (dBFS)", stroke: chartColours.axis, grid: { stroke: chartColours.grid }, ticks: { stroke: chartColours.grid }, size: 56 },
       ],
       series,
-      legend: { live: true },
       hooks: { drawAxes: [shade] },
     };
   }, [envelope, partial, two]);
@@ -148,7 +147,7 @@ export function DecayChart({ partial, envelope, label, height = 220 }: { partial
   return (
     <figure className="flex flex-col gap-1">
       <div ref={wrapRef} className="w-full">
-        {width > 0 ? <UplotChart options={options} data={data} height={height} label={description} className="tl-chart tl-decay w-full" /> : null}
+        {width > 0 ? <UplotChart options={options} data={data} height={height} label={description} className="tl-chart tl-decay w-full" idleReadout="Point at the chart to read a time and level." /> : null}
       </div>
       <figcaption className="text-caption text-ink-faint">
         Shaded: the evaluation range, {fixed(partial.fitStartS, 2)}–{fixed(partial.fitEndS, 2)} s.

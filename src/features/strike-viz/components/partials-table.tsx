@@ -1,4 +1,5 @@
 import { t60ExtrapolatedFrom } from "@shared/physics";
+import type { StrikeNoteReading } from "@shared/schemas/strike";
 import { fixed, signed, splitUncertainty, unreliableReason } from "../lib/format";
 import { ratioReference, type PartialRow } from "../lib/partial-rows";
 
@@ -10,10 +11,10 @@ const num = "py-2 pl-3 text-right font-mono text-caption whitespace-nowrap align
  * from the fit; the deviation is this strike's own, before the evaluation's temperature
  * correction and combination of strikes.
  */
-export function PartialsTable({ rows }: { rows: PartialRow[] }) {
+export function PartialsTable({ rows, strikeNote = null, strikeNoteIsFundamental = false }: { rows: PartialRow[]; strikeNote?: StrikeNoteReading | null; strikeNoteIsFundamental?: boolean }) {
   const anyBeat = rows.some((r) => r.partial.beatHz !== null);
   const anyTarget = rows.some((r) => r.deviationCents !== null);
-  const reference = ratioReference(rows);
+  const reference = ratioReference(rows, strikeNote, strikeNoteIsFundamental);
   return (
     <div className="overflow-x-auto">
       <table className="tl-partials w-full border-collapse text-left text-body tabular-nums">
@@ -21,11 +22,11 @@ export function PartialsTable({ rows }: { rows: PartialRow[] }) {
         <thead>
           <tr className="border-b border-line-strong align-bottom text-caption font-semibold text-ink-soft">
             <th scope="col" className="sticky left-0 bg-surface py-2 pr-2">Partial</th>
-            <th scope="col" className="py-2 pl-3 text-right">Frequency (Hz)<span className="block font-normal">± u</span></th>
-            <th scope="col" className="py-2 pl-3 text-right">{reference === "lowest" ? "Ratio to lowest" : "Ratio to f₀"}</th>
+            <th scope="col" className="py-2 pl-3 text-right">Frequency (Hz)<span className="block font-normal">± u (k = 1)</span></th>
+            <th scope="col" className="py-2 pl-3 text-right">{reference === "lowest" ? "Ratio to lowest" : reference === "strike_note" ? "Ratio to strike note" : "Ratio to f₁"}</th>
             <th scope="col" className="py-2 pl-3 text-right">Deviation (cents)</th>
             <th scope="col" className="py-2 pl-3 text-right">Amplitude (dBFS)</th>
-            <th scope="col" className="py-2 pl-3 text-right">τ (s)<span className="block font-normal">± u</span></th>
+            <th scope="col" className="py-2 pl-3 text-right">τ (s)<span className="block font-normal">± u (k = 1)</span></th>
             <th scope="col" className="py-2 pl-3 text-right">T60 (s)</th>
             <th scope="col" className="py-2 pl-3 text-right">Q</th>
             <th scope="col" className="py-2 pl-3 text-right">Fit R²<span className="block font-normal">vs envelope</span></th>
@@ -40,7 +41,8 @@ export function PartialsTable({ rows }: { rows: PartialRow[] }) {
               <tr key={row.index} className="border-b border-line" data-partial-index={row.index}>
                 <th scope="row" className="sticky left-0 bg-surface py-2 pr-2 align-top font-medium">
                   <span className="tl-partial-label">{row.label}</span>
-                  {row.isFundamental ? <span className="block text-caption font-normal text-ink-faint">fundamental, f₀</span> : null}
+                  {row.isFundamental ? <span className="block text-caption font-normal text-ink-faint">fundamental, f₁</span> : null}
+                  {row.strikeNoteHarmonic !== null ? <span className="block text-caption font-normal text-steel-700">strike note ×{row.strikeNoteHarmonic}</span> : null}
                   {p.tauUnreliable ? <span className="block text-caption font-normal text-ochre-600">τ unreliable: {unreliableReason(p)}</span> : null}
                 </th>
                 <td className={num}>
@@ -80,6 +82,7 @@ export function PartialsTable({ rows }: { rows: PartialRow[] }) {
         u: standard uncertainty (k = 1) from the fit. T60 = τ·ln 1000; Q = π·f·τ. “from 28 dB”: the recording saw 28 dB of the decay, and T60 (60 dB) is extrapolated from it. Fit R²: the fitted decay against the partial’s own envelope.
         {anyTarget ? " Deviation: this strike alone, before temperature correction; the unit's verdict combines its strikes." : " No spec targets matched this strike, so only ratios are shown."}
         {reference === "lowest" ? " No partial matched the spec's fundamental, so ratios are to the lowest partial." : ""}
+        {strikeNote ? " Strike note ×n: the partial stands near n times the strike note and was used to read it." : ""}
         {anyBeat ? " Beat: the difference of a doublet's two close modes." : ""}
       </p>
     </div>

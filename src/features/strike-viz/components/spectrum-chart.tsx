@@ -6,15 +6,19 @@
  *
  * The chart never holds more points than it has pixel columns: the server's series is bucketed
  * to the plot width (keeping each bucket's peak), and again for the visible band after a zoom.
+ *
+ * Labels never overlap: they are placed in up to three rows above the plot, the spec's partials
+ * first and then the strongest; a partial whose label finds no room keeps its red line, is named
+ * when the pointer is near it, and stays in the Partials table. Axis ticks are thinned to the width.
  */
 import { useMemo, useRef, useState } from "react";
 import type uPlot from "uplot";
 import type { StrikePlot } from "@shared/schemas/analysis";
 import { Button } from "@/components/ui/button";
 import { decimateIndices } from "@/lib/decimate";
-import { frequencyTicks } from "@/lib/ticks";
+import { frequencyTickLabel, frequencyTicks } from "@/lib/ticks";
 import { useWidth } from "@/lib/use-width";
-import { UplotChart, type ChartOptions } from "@/components/charts/uplot-chart";
+import { UplotChart, type ChartOptions, type KeyItem } from "@/components/charts/uplot-chart";
 import { chartColours } from "../lib/colours";
 import { formatHz } from "../lib/format";
 import type { PartialRow } from "../lib/partial-rows";
@@ -25,6 +29,12 @@ const ZOOM_CENTS = 200;
 
 /** Width taken by the y axis and padding of the spectrum plot, CSS px (axis size 56 + label). */
 const Y_AXIS_PX = 80;
+
+/** Label rows above the plot, and the height of one, CSS px. */
+const LABEL_ROWS = 3;
+const LABEL_ROW_PX = 18;
+/** Least gap between two labels in a row, CSS px. */
+const LABEL_GAP_PX = 4;
 
 type Full = { f: number[]; mag: number[]; floor: (number | null)[] };
 
@@ -39,9 +49,24 @@ function plotData(full: Full, columns: number, lo: number, hi: number, log: bool
   return [keep.map((i) => full.f[i]), keep.map((i) => full.mag[i]), keep.map((i) => full.floor[i])];
 }
 
-export function SpectrumChart({ spectrum, bands, humHz, rows: rowsIn }: { spectrum: StrikePlot["spectrum"]; bands?: StrikePlot["bands"]; humHz: number[]; rows: PartialRow[] }) {
+export function SpectrumChart({
+  spectrum,
+  bands,
+  humHz,
+  rows: rowsIn,
+  strikeNoteHz = null,
+}: {
+  spectrum: StrikePlot["spectrum"];
+  bands?: StrikePlot["bands"];
+  humHz: number[];
+  rows: PartialRow[];
+  /** The heard pitch of a tube, drawn as a dashed line where no partial need sound. */
+  strikeNoteHz?: number | null;
+}) {
   const [scale, setScale] = useState<Scale>("log");
   const [focus, setFocus] = useState<string>("all");
+  // Partials drawn without a label because there was no room (their names are in the table).
+  const [hidden, setHidden] = useState<string[]>([]);
   const [wrapRef, width] = useWidth<HTMLDivElement>();
   const chartRef = useRef<uPlot | null>(null);
   const resetRef = useRef<() => void>(() => undefined);
@@ -99,12 +124,33 @@ export function SpectrumChart({ spectrum, bands, humHz, rows: rowsIn }: { spectr
         if (f < lo || f > hi) continue;
         const x = u.valToPos(f, "x", true);
         ctx.beginPath();
-        ctx.moveTo(x, top + 22 * dpr);
+        ctx.moveTo(x, top);
         ctx.lineTo(x, top + height);
         ctx.stroke();
       }
+      if (strikeNoteHz !== null && strikeNoteHz >= lo && strikeNoteHz <= hi) {
+        const x = u.valToPos(strikeNoteHz, "x", true);
+        ctx.strokeStyle = chartColours.strikeNote;
+        ctx.lineWidth = 2 * dpr;
+        ctx.setLineDash([6 * dpr, 3 * dpr]);
+        ctx.beginPath();
+        ctx.moveTo(x, top);
+        ctx.lineTo(x, top + height);
+        ctx.stroke();
+      }
+      const { hidden: unlabelled, leaders } = placeLabels(u, rows, humHz, lo, hi, strikeNoteHz);
+      // A label moved aside to find room is tied to its line by a thin leader.
+      ctx.setLineDash([]);
+      ctx.lineWidth = 1 * dpr;
+      ctx.strokeStyle = chartColours.partial;
+      for (const l of leaders) {
+        ctx.beginPath();
+        ctx.moveTo((u.bbox.left / dpr + l.fromX) * dpr, top - l.fromAbovePx * dpr);
+        ctx.lineTo((u.bbox.left / dpr + l.toX) * dpr, top);
+        ctx.stroke();
+      }
       ctx.restore();
-      placeLabels(u, rows, humHz, lo, hi);
+      setHidden((before) => (before.join("\u0000") === unlabelled.join("\u0000") ? before : unlabelled));
     };
     let rebucketing = false;
     // After a zoom, bucket the server's series again for the visible band (more detail, same point budget).
@@ -129,13 +175,14 @@ export function SpectrumChart({ spectrum, bands, humHz, rows: rowsIn }: { spectr
       axes: [
         {
           label: "Frequency (Hz)",
-          splits: (_u, _i, min, max) => frequencyTicks(min, max, scale === "log"),
+          // As many ticks as the width can label without the labels running together.
+          splits: (u, _i, min, max) => frequencyTicks(min, max, scale === "log", u.bbox.width / (devicePixelRatio || 1)),
           // uPlot's log axis would label only powers of ten; every chosen split gets its label.
           filter: (_u, splits) => splits,
           stroke: chartColours.axis,
           grid: { stroke: chartColours.grid },
           ticks: { stroke: chartColours.grid },
-          values: (_u, vals) => vals.map((v) => (v == null ? "" : v >= 1000 ? `${+(v / 1000).toFixed(3)}k` : `${+v.toFixed(v < 10 ? 1 : 0)}`)),
+          values: (_u, vals) => vals.map((v) => (v == null ? "" : frequencyTickLabel(v))),
         },
         { label: "Magnitude (dBFS)", stroke: chartColours.axis, grid: { stroke: chartColours.grid }, ticks: { stroke: chartColours.grid }, size: 56 },
       ],
@@ -155,10 +202,11 @@ export function SpectrumChart({ spectrum, bands, humHz, rows: rowsIn }: { spectr
           },
         },
       },
-      legend: { live: true },
+      // Room above the plot for the label rows.
+      padding: [LABEL_ROWS * LABEL_ROW_PX + 6, 12, 0, 0],
       hooks: { draw: [markers], setScale: [rebucket] },
     };
-  }, [full, rows, humHz, scale, fLo, fMax]);
+  }, [full, rows, humHz, scale, fLo, fMax, strikeNoteHz]);
 
   // Zoom to one partial from the keyboard: ±200 cents around it (the band the server sends at full
   // resolution), or back to the whole spectrum.
@@ -175,6 +223,12 @@ export function SpectrumChart({ spectrum, bands, humHz, rows: rowsIn }: { spectr
   };
 
   resetRef.current = () => zoomTo("all");
+
+  const keyItems: KeyItem[] = [
+    { label: "Reported partial", colour: chartColours.partial, width: 1.5 },
+    ...(strikeNoteHz !== null ? [{ label: "Strike note (heard pitch)", colour: chartColours.strikeNote, dash: [6, 3], width: 2 }] : []),
+    ...(humHz.length ? [{ label: "Mains hum (ignored)", colour: chartColours.hum, dash: [3, 4], width: 1.5 }] : []),
+  ];
 
   return (
     <div className="flex flex-col gap-2">
@@ -221,13 +275,22 @@ export function SpectrumChart({ spectrum, bands, humHz, rows: rowsIn }: { spectr
           <UplotChart
             options={options}
             data={data}
-            height={320}
+            height={360}
             onCreate={(u) => (chartRef.current = u)}
             label={`Spectrum with ${rows.length} partials marked: ${rows.map((r) => `${r.label} at ${formatHz(r.partial.frequencyHz)}`).join("; ")}`}
             className="tl-chart tl-spectrum w-full"
+            extraKey={keyItems}
+            idleReadout="Point at the chart to read a frequency and level; drag across it to zoom."
+            readoutSuffix={(u, idx) => nearestPartial(rows, u.data[0][idx] as number, scale === "log")}
           />
         ) : null}
       </div>
+      {hidden.length ? (
+        <p className="text-caption text-ink-faint" data-testid="unlabelled-partials">
+          No room for {hidden.length === 1 ? "the label of" : "the labels of"} {hidden.join(", ")} at this width: {hidden.length === 1 ? "its line is" : "their lines are"} marked without a name.
+          Point at a line or zoom in to name it, or read it in the Partials table.
+        </p>
+      ) : null}
       {humHz.length ? (
         <p className="text-caption text-ink-faint">
           Dashed grey lines: mains hum at {humHz.map((h) => formatHz(h, 0)).join(", ")} — recognised and ignored, not a partial of the unit.
@@ -237,8 +300,26 @@ export function SpectrumChart({ spectrum, bands, humHz, rows: rowsIn }: { spectr
   );
 }
 
-/** Labels above the markers, in HTML over the plot, staggered in rows so close partials stay legible. */
-function placeLabels(u: uPlot, rows: PartialRow[], humHz: number[], lo: number, hi: number) {
+/** "nearest partial: Tierce, 528.00 Hz" when the cursor is within 3 % (log) or 2 % of the axis of one. */
+function nearestPartial(rows: PartialRow[], f: number, log: boolean): string | null {
+  if (!(f > 0) || rows.length === 0) return null;
+  const distance = (r: PartialRow) => (log ? Math.abs(Math.log(r.partial.frequencyHz / f)) : Math.abs(r.partial.frequencyHz - f) / f);
+  const best = rows.reduce((a, b) => (distance(b) < distance(a) ? b : a));
+  return distance(best) < 0.03 ? `nearest partial: ${best.label}, ${formatHz(best.partial.frequencyHz)}` : null;
+}
+
+type Placed = { left: number; right: number };
+/** Farthest a label may move aside from its line, CSS px, and the step it moves in. */
+const LABEL_SHIFT_MAX_PX = 72;
+const LABEL_SHIFT_STEP_PX = 6;
+
+/**
+ * Labels in rows above the plot, HTML over the canvas (readable by people, screen readers and
+ * tests). The strike note and the spec's partials first, then by level; each goes where it
+ * overlaps nothing — above its line if it can, else moved aside by the least amount (tied to its
+ * line by a leader). Returns the partials that found no room, and the leaders to draw.
+ */
+function placeLabels(u: uPlot, rows: PartialRow[], humHz: number[], lo: number, hi: number, strikeNoteHz: number | null): { hidden: string[]; leaders: { fromX: number; fromAbovePx: number; toX: number }[] } {
   let layer = u.over.querySelector<HTMLDivElement>(".tl-marker-layer");
   if (!layer) {
     layer = document.createElement("div");
@@ -247,29 +328,58 @@ function placeLabels(u: uPlot, rows: PartialRow[], humHz: number[], lo: number, 
     u.over.appendChild(layer);
   }
   layer.replaceChildren();
-  const lastRight: number[] = [];
-  const place = (x: number, text: string, className: string, dataset: Record<string, string>) => {
-    const el = document.createElement("span");
-    el.className = className;
-    el.textContent = text;
-    for (const [k, v] of Object.entries(dataset)) el.dataset[k] = v;
-    layer!.appendChild(el);
-    const width = el.offsetWidth || text.length * 7;
-    const left = Math.min(Math.max(0, x - width / 2), u.over.clientWidth - width);
-    let row = 0;
-    while (row < lastRight.length && lastRight[row] > left - 4) row++;
-    if (row > 2) row = 2;
-    lastRight[row] = left + width;
-    el.style.left = `${left}px`;
-    el.style.top = `${2 + row * 18}px`;
-  };
+  const plotWidth = u.over.clientWidth;
+  const taken: Placed[][] = Array.from({ length: LABEL_ROWS }, () => []);
+  const hidden: string[] = [];
+  const leaders: { fromX: number; fromAbovePx: number; toX: number }[] = [];
+  type Item = { x: number; text: string; className: string; dataset: Record<string, string>; rank: number };
+  const items: Item[] = [];
   for (const row of rows) {
     const f = row.partial.frequencyHz;
     if (f < lo || f > hi) continue;
-    place(u.valToPos(f, "x"), row.label, "tl-marker tl-marker-partial", { partialIndex: String(row.index), label: row.label });
+    items.push({ x: u.valToPos(f, "x"), text: row.label, className: "tl-marker tl-marker-partial", dataset: { partialIndex: String(row.index), label: row.label }, rank: (row.labelled ? 0 : 1000) - row.partial.amplitudeDb });
+  }
+  if (strikeNoteHz !== null && strikeNoteHz >= lo && strikeNoteHz <= hi) {
+    items.push({ x: u.valToPos(strikeNoteHz, "x"), text: "strike note", className: "tl-marker tl-marker-note", dataset: { strikeNoteHz: String(strikeNoteHz), label: "strike note" }, rank: -1 });
   }
   for (const hum of humHz) {
     if (hum < lo || hum > hi) continue;
-    place(u.valToPos(hum, "x"), "hum (ignored)", "tl-marker tl-marker-hum", { humHz: String(hum) });
+    items.push({ x: u.valToPos(hum, "x"), text: "hum (ignored)", className: "tl-marker tl-marker-hum", dataset: { humHz: String(hum) }, rank: 2000 });
   }
+  items.sort((a, b) => a.rank - b.rank);
+  for (const item of items) {
+    const el = document.createElement("span");
+    el.className = item.className;
+    el.textContent = item.text;
+    for (const [k, v] of Object.entries(item.dataset)) el.dataset[k] = v;
+    layer.appendChild(el);
+    const width = el.offsetWidth || item.text.length * 7 + 10;
+    const free = (row: number, left: number) => taken[row].every((p) => left + width + LABEL_GAP_PX <= p.left || left >= p.right + LABEL_GAP_PX);
+    const centred = Math.min(Math.max(0, item.x - width / 2), Math.max(0, plotWidth - width));
+    let spot: { row: number; left: number } | null = null;
+    for (let shift = 0; shift <= LABEL_SHIFT_MAX_PX && !spot; shift += LABEL_SHIFT_STEP_PX) {
+      for (const left of shift === 0 ? [centred] : [centred - shift, centred + shift]) {
+        if (left < 0 || left + width > plotWidth) continue;
+        const row = taken.findIndex((_, r) => free(r, left));
+        if (row >= 0) {
+          spot = { row, left };
+          break;
+        }
+      }
+    }
+    if (!spot) {
+      el.remove();
+      if (item.dataset.label) hidden.push(item.text);
+      continue;
+    }
+    taken[spot.row].push({ left: spot.left, right: spot.left + width });
+    el.style.left = `${spot.left}px`;
+    // Row 0 sits just above the plot, the others above it.
+    const above = (spot.row + 1) * LABEL_ROW_PX + 2;
+    el.style.top = `${-above}px`;
+    const centre = spot.left + width / 2;
+    // A label in an upper row or moved aside gets a leader down to its line (drawn under the labels).
+    if (spot.row > 0 || Math.abs(centre - item.x) > 1) leaders.push({ fromX: Math.min(Math.max(item.x, spot.left + 3), spot.left + width - 3), fromAbovePx: above - LABEL_ROW_PX, toX: item.x });
+  }
+  return { hidden, leaders };
 }

@@ -28,6 +28,9 @@ function timelineSteps(durationS: number) {
 
 const ZOOM_STEPS = [0, 50, 100, 200, 400, 800, 1600] as const;
 
+/** Room a time label needs right of its tick, CSS px ("12.5 s" at 11 px, plus its indent). */
+const TIME_LABEL_PX = 40;
+
 export function Waveform({
   workshopId,
   strikeId,
@@ -58,6 +61,8 @@ export function Waveform({
   const [zoomIndex, setZoomIndex] = useState(0);
   const [showSpectrogram, setShowSpectrogram] = useState(true);
   const [decodeError, setDecodeError] = useState<string | null>(null);
+  // Pixels per second of the drawn waveform, so the last time label is left out when it would run past the end.
+  const pxPerSecond = useRef(0);
 
   useEffect(() => {
     const container = waveRef.current;
@@ -80,10 +85,14 @@ export function Waveform({
       plugins: [
         regions,
         TimelinePlugin.create({
-          height: 20,
+          height: 26,
           ...timelineSteps(durationS ?? 0),
           secondaryLabelOpacity: 0.7,
-          formatTimeCallback: (s) => `${+s.toFixed(2)} s`,
+          formatTimeCallback: (s) => {
+            const total = wsRef.current?.getDuration() || durationS || 0;
+            const perSecond = pxPerSecond.current || container.clientWidth / Math.max(total, 1e-3);
+            return (total - s) * perSecond < TIME_LABEL_PX ? "" : `${+s.toFixed(2)} s`;
+          },
           style: { fontSize: "11px", lineHeight: "14px", color: chartColours.axis },
         }),
         HoverPlugin.create({
@@ -104,7 +113,8 @@ export function Waveform({
         onsetsS.forEach((onset, i) => {
           const label = document.createElement("span");
           label.textContent = onsetsS.length > 1 ? `strike ${i + 1}` : "strike";
-          label.className = "tl-onset-label";
+          // The waveform lives in wavesurfer's shadow DOM, out of reach of the page's stylesheet: style inline.
+          Object.assign(label.style, { display: "inline-block", whiteSpace: "nowrap", marginLeft: "3px", padding: "0 4px", fontSize: "11px", lineHeight: "15px", color: "#fff", background: "#8a5a0f", borderRadius: "2px" });
           regions.addRegion({ start: onset, content: label, color: chartColours.onset, drag: false, resize: false });
         });
       }),
@@ -160,7 +170,10 @@ export function Waveform({
 
   useEffect(() => {
     const ws = wsRef.current;
-    if (ws && ready) ws.zoom(ZOOM_STEPS[zoomIndex]);
+    const container = waveRef.current;
+    if (!ws || !ready || !container) return;
+    pxPerSecond.current = Math.max(ZOOM_STEPS[zoomIndex], container.clientWidth / Math.max(ws.getDuration(), 1e-3));
+    ws.zoom(ZOOM_STEPS[zoomIndex]);
   }, [zoomIndex, ready]);
 
   if (audio.isError) {
@@ -217,7 +230,7 @@ export function Waveform({
           {time.toFixed(3)} s / {duration.toFixed(3)} s
         </span>
       </div>
-      <div className="relative rounded-control border border-line bg-canvas px-1 pt-1">
+      <div className="tl-waveform relative rounded-control border border-line bg-canvas px-1 pt-1">
         {!ready && !decodeError ? (
           <div className="absolute inset-0 z-10 flex items-center justify-center">
             <Spinner label={audio.isPending ? "Loading the recording…" : "Drawing the waveform…"} />

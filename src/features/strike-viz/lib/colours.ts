@@ -13,6 +13,7 @@ export const chartColours = {
   spectrum: "#1f5d65",
   noise: "#8a5a0f",
   partial: "#9c3526",
+  strikeNote: "#2c737b",
   hum: "#6f787a",
   envelope: "#1f5d65",
   /** Lighter than the fit lines so a fit drawn on top of its envelope stays visible. */

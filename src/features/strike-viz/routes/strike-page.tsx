@@ -4,9 +4,12 @@
  * partials table and the warnings. Queued and analysing strikes poll until done; a failed strike
  * shows its waveform and the reason; a strike without partials says so.
  */
+import { SERIES_WORDS } from "@shared/strike-note";
 import { useMemo, useState } from "react";
 import { Link, useParams } from "react-router";
-import type { StrikeDetail } from "@shared/schemas/strike";
+import { cents } from "@shared/physics";
+import type { StrikeDetail, StrikeNoteReading } from "@shared/schemas/strike";
+import { nearestNote } from "@shared/tuning";
 import { supportLabels } from "@shared/schemas/spec";
 import { strikeStateLabels } from "@shared/schemas/strike";
 import { t60ExtrapolatedFrom } from "@shared/physics";
@@ -25,8 +28,8 @@ import { SpectrumChart } from "../components/spectrum-chart";
 import { StrikeCorrection } from "../components/strike-correction";
 import { WarningsList } from "../components/warnings-list";
 import { Waveform } from "../components/waveform";
-import { fixed, formatHz } from "../lib/format";
-import { partialRows } from "../lib/partial-rows";
+import { fixed, formatHz, signed, withUncertainty } from "../lib/format";
+import { partialRows, type PartialRow } from "../lib/partial-rows";
 import "../strike-viz.css";
 
 export default function StrikePage() {
@@ -62,10 +65,10 @@ function StrikeView({ workshopId, strike }: { workshopId: string; strike: Strike
   const onsets = useMemo(() => strikes.map((s) => s.onsetS), [strikes]);
   // Labels describe result.strikes[0]; the other strikes of a file get "partial n" names.
   const labels = useMemo(() => (shown === 0 ? strike.labels : {}), [shown, strike.labels]);
-  const rows = useMemo(
-    () => (current ? partialRows(current.partials, labels, unit.data?.evaluation?.requirements ?? null) : []),
-    [current, labels, unit.data],
-  );
+  const strikeNote = shown === 0 ? strike.strikeNote : null;
+  const requirements = unit.data?.evaluation?.requirements ?? null;
+  const strikeNoteIsFundamental = strikeNote !== null && requirements?.find((r) => r.isFundamental)?.label === strikeNote.label;
+  const rows = useMemo(() => (current ? partialRows(current.partials, labels, requirements, strikeNote) : []), [current, labels, requirements, strikeNote]);
   const busy = strike.state === "queued" || strike.state === "analysing";
   const highestPartialHz = useMemo(() => {
     const all = strikes.flatMap((s) => s.partials.map((p) => p.frequencyHz));
@@ -168,15 +171,17 @@ function StrikeView({ workshopId, strike }: { workshopId: string; strike: Strike
                   <h2 id="spectrum-heading" className="mb-1 text-title font-semibold">Spectrum</h2>
                   <p className="mb-3 text-caption text-ink-faint">Magnitude of the analysed segment after the strike at {fixed(current.onsetS, 2)} s. Red lines: the reported partials.</p>
                   {current.plot ? (
-                    <SpectrumChart spectrum={current.plot.spectrum} bands={current.plot.bands} humHz={current.plot.humHz} rows={rows} />
+                    <SpectrumChart spectrum={current.plot.spectrum} bands={current.plot.bands} humHz={current.plot.humHz} rows={rows} strikeNoteHz={strikeNote?.frequencyHz ?? null} />
                   ) : (
                     <p className="text-ink-soft">This strike was analysed before plot series were stored; analyse it again to see its spectrum.</p>
                   )}
                 </Panel>
 
+                {strikeNote ? <StrikeNotePanel note={strikeNote} rows={rows} referencePitchHz={strike.referencePitchHz} /> : null}
+
                 <Panel aria-labelledby="partials-heading">
                   <h2 id="partials-heading" className="mb-3 text-title font-semibold">Partials</h2>
-                  <PartialsTable rows={rows} />
+                  <PartialsTable rows={rows} strikeNote={strikeNote} strikeNoteIsFundamental={strikeNoteIsFundamental} />
                 </Panel>
 
                 <Panel aria-labelledby="decay-heading">
@@ -202,6 +207,56 @@ function StrikeView({ workshopId, strike }: { workshopId: string; strike: Strike
         )
       ) : null}
     </div>
+  );
+}
+
+/**
+ * The heard pitch of a tube, read from this strike: the strike note, the note it is nearest at the
+ * spec's reference pitch, its target, and the partials of the 2 : 3 : 4 series it was read from.
+ */
+function StrikeNotePanel({ note, rows, referencePitchHz }: { note: StrikeNoteReading; rows: PartialRow[]; referencePitchHz: number }) {
+  const near = nearestNote(note.frequencyHz, referencePitchHz);
+  const offTarget = note.targetHz ? cents(note.frequencyHz, note.targetHz) : null;
+  return (
+    <Panel aria-labelledby="strike-note-heading">
+      <h2 id="strike-note-heading" className="mb-1 text-title font-semibold">
+        {note.label}
+      </h2>
+      <p className="mb-3 max-w-prose text-caption text-ink-faint">
+        The pitch heard from a tube: the common fundamental of the partials that stand near {SERIES_WORDS}, about an octave below the lowest of them — the usual reading for tubular chimes.
+      </p>
+      <dl className="grid grid-cols-1 gap-x-6 gap-y-2 sm:grid-cols-3">
+        <div>
+          <dt className="text-caption text-ink-faint">Strike note of this strike</dt>
+          <dd className="text-title font-semibold tabular-nums">{withUncertainty(note.frequencyHz, note.uncertaintyHz, "Hz", 3)}</dd>
+          <dd className="text-caption text-ink-soft">± u (k = 1) from the partials' fits</dd>
+        </div>
+        <div>
+          <dt className="text-caption text-ink-faint">Nearest note at A4 = {referencePitchHz} Hz</dt>
+          <dd className="text-title font-semibold tabular-nums">
+            {near.name} {signed(near.cents, 1)} cents
+          </dd>
+        </div>
+        <div>
+          <dt className="text-caption text-ink-faint">From the target</dt>
+          <dd className="text-title font-semibold tabular-nums">{offTarget === null ? "no target" : `${signed(offTarget, 1)} cents`}</dd>
+          {note.targetHz ? <dd className="text-caption text-ink-soft">target {formatHz(note.targetHz, 3)}; this strike alone, before temperature correction</dd> : null}
+        </div>
+      </dl>
+      <h3 className="mb-1 mt-4 text-body font-semibold">Partials it was read from</h3>
+      <ul className="flex flex-col gap-1" aria-label="Partials used for the strike note">
+        {note.members.map((m) => {
+          const row = rows.find((r) => r.index === m.index);
+          return (
+            <li key={m.index} className="tabular-nums">
+              <span className="font-medium">{row?.label ?? `partial ${m.index + 1}`}</span> · {row ? formatHz(row.partial.frequencyHz, 2) : "–"} · {m.harmonic} × the strike note{" "}
+              <span className="text-ink-soft">({signed(m.deviationCents, 1)} cents from it)</span>
+            </li>
+          );
+        })}
+      </ul>
+      <p className="mt-2 text-caption text-ink-faint">Misfit of the three from an exact {SERIES_WORDS} series: {fixed(note.misfitCents, 1)} cents RMS.</p>
+    </Panel>
   );
 }
 

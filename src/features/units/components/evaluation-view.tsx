@@ -14,7 +14,12 @@ export function ResultBadge({ result }: { result: CheckResult }) {
   return <Badge tone={resultTone[result]}>{resultWords[result]}</Badge>;
 }
 
-export function EvaluationPanel({ evaluation, pending }: { evaluation: Evaluation | null; pending: boolean }) {
+/** "2 strikes (1 required)", "1 strike (3 required)". */
+export function strikesWords(used: number, required: number): string {
+  return `${used} ${used === 1 ? "strike" : "strikes"} (${required} required)`;
+}
+
+export function EvaluationPanel({ evaluation, pending, referenceTemperatureC = 20 }: { evaluation: Evaluation | null; pending: boolean; referenceTemperatureC?: number }) {
   if (!evaluation) {
     return (
       <EmptyState title={pending ? "Waiting for the analysis" : "No evaluation yet"}>
@@ -28,8 +33,8 @@ export function EvaluationPanel({ evaluation, pending }: { evaluation: Evaluatio
         <span className="text-lead font-semibold">Verdict:</span>
         <VerdictBadge verdict={evaluation.verdict} />
         <span className="text-caption text-ink-soft">
-          {evaluation.strikesUsed} of {evaluation.strikesRequired} required strike{evaluation.strikesRequired === 1 ? "" : "s"} · {decisionRuleLabels[evaluation.decisionRule].split(" (")[0]}
-          {evaluation.temperatureCorrected ? " · corrected to the reference temperature" : ""} · {formatDateTime(evaluation.createdAt)}
+          {strikesWords(evaluation.strikesUsed, evaluation.strikesRequired)} · {decisionRuleLabels[evaluation.decisionRule].split(" (")[0]}
+          {evaluation.temperatureCorrected ? ` · corrected to ${referenceTemperatureC} °C` : ""} · {formatDateTime(evaluation.createdAt)}
         </span>
       </div>
       {evaluation.reasons.length > 0 ? (
@@ -44,7 +49,7 @@ export function EvaluationPanel({ evaluation, pending }: { evaluation: Evaluatio
           <caption className="sr-only">Requirements as measured</caption>
           <thead className="border-b border-line-strong text-ink-soft">
             <tr>
-              {["Partial", "Result", "Measured ± U (k = 2)", "Target", "Deviation ± U", "T60", "Q", "Beat"].map((h, i) => (
+              {["Partial", "Result", evaluation.temperatureCorrected ? `Measured at ${referenceTemperatureC}\u00a0°C ± U (k\u00a0=\u00a02)` : "Measured ± U (k = 2)", "Target", "Deviation ± U (k = 2)", "T60 ± U (k = 2)", "Q", "Beat"].map((h, i) => (
                 <th key={h} scope="col" className={clsx("py-2 pr-3 align-bottom font-semibold", i > 1 && "text-right")}>
                   {h}
                 </th>
@@ -96,7 +101,7 @@ function RequirementRow({ r, repeatsReason }: { r: RequirementResult; repeatsRea
           <span className="block font-normal text-ink-faint">tolerance ± {r.toleranceCents} ¢</span>
         </td>
         <td className={clsx("whitespace-nowrap py-2 pr-3 text-right tabular-nums", failed(r.t60))}>
-          {r.t60S != null ? `${formatNumber(r.t60S, 1)} s` : "—"}
+          {r.t60S != null ? `${formatNumber(r.t60S, 1)}${r.t60UncertaintyS != null ? ` ± ${formatUncertainty(r.t60UncertaintyS, 0.01)}` : ""} s` : "—"}
           {r.t60S != null && t60ExtrapolatedFrom(r.t60ObservedDecayDb) ? <span className="block font-normal text-ink-faint">extrapolated {t60ExtrapolatedFrom(r.t60ObservedDecayDb)}</span> : null}
           {r.minT60S != null ? <span className="block font-normal text-ink-faint">min {r.minT60S} s</span> : null}
         </td>

@@ -46,8 +46,11 @@ export type UnitVerification = Common & {
   supersededBy: string | null;
 };
 
-export function getVerification(code: string): Promise<Verification> {
-  return api.get<Verification>(`/api/verify/${encodeURIComponent(code)}`);
+/** `{ found: false }` for a code no certificate has: asked with ?notFound=ok, so no error status (and no console error). */
+export type VerificationAnswer = ({ found: true } & Verification) | { found: false };
+
+export function getVerification(code: string): Promise<VerificationAnswer> {
+  return api.get<VerificationAnswer>(`/api/verify/${encodeURIComponent(code)}?notFound=ok`);
 }
 
 /** Not under a workshop: anyone holding the link sees the same answer. */

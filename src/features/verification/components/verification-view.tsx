@@ -13,6 +13,25 @@ const lineWords = { pass: "Pass", fail: "Fail", inconclusive: "Inconclusive" } a
 const verdictColour = (v: Verdict) => (v === "within_tolerance" ? "text-moss-600" : v === "out_of_tolerance" ? "text-rust-700" : "text-ochre-600");
 const lineColour = (r: LineResult) => (r === "pass" ? "text-moss-600" : r === "fail" ? "text-rust-700" : "text-ochre-600");
 
+/**
+ * For a code that matches no certificate. Spoken to the customer holding the link: what may have
+ * gone wrong, what to try, and whom to ask — nothing about signing in or a dashboard.
+ */
+export function VerificationNotFound() {
+  return (
+    <article aria-labelledby="not-found-heading" className="flex flex-col gap-3">
+      <h1 id="not-found-heading" className="text-heading font-semibold">
+        Certificate not found
+      </h1>
+      <p>This link does not match any certificate issued through Tinelog.</p>
+      <ul className="list-disc pl-5 text-ink-soft">
+        <li>Open the link from the e-mail again, or scan the QR code on the certificate: a link copied by hand may miss a character.</li>
+        <li>If it still is not found, contact the workshop that issued the certificate and quote the certificate number printed on it. Until then, do not rely on the document.</li>
+      </ul>
+    </article>
+  );
+}
+
 export function VerificationView({ v }: { v: Verification }) {
   const trusted = v.signatureValid && v.pdfIntact;
   return (

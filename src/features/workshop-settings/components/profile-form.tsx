@@ -2,6 +2,7 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useState } from "react";
 import { useForm } from "react-hook-form";
+import { certificateNumber } from "@shared/schemas/certificate";
 import { workshopProfileSchema } from "@shared/schemas/workshop";
 import { Alert } from "@/components/ui/alert";
 import { Button } from "@/components/ui/button";
@@ -41,7 +42,12 @@ export function ProfileForm({ workshopId, profile }: { workshopId: string; profi
       <div className="grid gap-4 sm:grid-cols-2">
         <InputField label="Sending e-mail" type="email" hint="Certificates are sent from this address." error={errors.sendingEmail?.message} {...form.register("sendingEmail")} />
         <InputField label="Quality e-mail" type="email" hint="Customers' replies go here." error={errors.qualityEmail?.message} {...form.register("qualityEmail")} />
-        <InputField label="Certificate prefix" hint="Starts every certificate number, e.g. BTW-2026-0001." error={errors.certificatePrefix?.message} {...form.register("certificatePrefix")} />
+        <InputField
+          label="Certificate prefix"
+          hint={`Starts every certificate number: the first this year is ${certificateNumber(form.watch("certificatePrefix")?.trim() || "BTW", new Date().getFullYear(), 1)}.`}
+          error={errors.certificatePrefix?.message}
+          {...form.register("certificatePrefix")}
+        />
       </div>
       <fieldset className="grid gap-4 sm:grid-cols-2">
         <legend className="mb-2 text-body font-semibold">Assumed tolerances</legend>

@@ -110,6 +110,7 @@ export function BatchLedgerRoute() {
             rows={b.rows}
             unitHref={paths.app.unit.getHref}
             toleranceCents={b.fundamentalToleranceCents}
+            referenceTemperatureC={b.referenceTemperatureC}
             bulk={!released && can(role, "disposition", "create") ? { workshopId, batchId: b.id } : undefined}
           />
         </Panel>
@@ -141,7 +142,7 @@ export function BatchLedgerRoute() {
             <h2 id="add-heading" className="mb-3 text-title font-semibold">
               Add units
             </h2>
-            <AddUnitsForm workshopId={workshopId} batchId={b.id} />
+            <AddUnitsForm workshopId={workshopId} batchId={b.id} lastSerial={b.rows.at(-1)?.serial ?? null} remaining={b.quantity - b.units} />
           </Panel>
         ) : null}
       </div>

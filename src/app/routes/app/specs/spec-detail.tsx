@@ -2,7 +2,7 @@ import type { QueryClient } from "@tanstack/react-query";
 import { Link, useParams, type LoaderFunctionArgs } from "react-router";
 import { can } from "@shared/permissions";
 import { familyLabels } from "@shared/schemas/spec";
-import { ButtonLink } from "@/components/ui/button";
+import { ButtonLink, buttonClasses } from "@/components/ui/button";
 import { PageHeader, Panel } from "@/components/ui/panel";
 import { Spinner } from "@/components/ui/spinner";
 import { paths } from "@/config/paths";
@@ -42,6 +42,10 @@ export function SpecDetailRoute() {
             <ButtonLink to={paths.app.specificationModes.getHref(spec.data.id)} variant="secondary">
               Modes
             </ButtonLink>
+            {/* The file of the current version, to copy the design to another site (import it under New specification). */}
+            <a href={`/api/specs/${encodeURIComponent(spec.data.id)}/export`} download className={buttonClasses("secondary")}>
+              Export file
+            </a>
             {can(me.activeWorkshop.role, "spec", "write") ? (
               <ButtonLink to={paths.app.editSpecification.getHref(spec.data.id)} variant="primary">
                 Edit (new version)

@@ -36,6 +36,7 @@ export function SpecEditRoute() {
     decisionRule: current.decisionRule,
     strikesRequired: current.strikesRequired,
     lengthMm: current.lengthMm,
+    referencePitchHz: current.referencePitchHz,
     partials: current.partials.map((p) => ({ ...p })),
     changeNote: "",
   };

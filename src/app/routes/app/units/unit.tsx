@@ -129,7 +129,7 @@ export function UnitRoute() {
           <h2 id="evaluation-heading" className="mb-3 text-title font-semibold">
             Evaluation
           </h2>
-          <EvaluationPanel evaluation={evaluation} pending={pending} />
+          <EvaluationPanel evaluation={evaluation} pending={pending} referenceTemperatureC={u.spec.referenceTemperatureC} />
           {evaluation ? (
             <div className="mt-4">
               <EvaluationInstruments workshopId={workshopId} unitId={u.id} evaluation={evaluation} strikes={u.strikes} canReevaluate={can(role, "evaluation", "create") && !released && !pending} />
