@@ -107,6 +107,8 @@ describe("voiding a strike", () => {
   });
 
   it("accepts the voided strike's file again (upload it again instead of un-voiding)", async () => {
+    // The demo may hold several strikes of a unit (held and suspended): count from what is there.
+    const used = (await unit("F-0003")).evaluation.strikesUsed;
     const res = await upload("maker", "F-0003", wrongRecording, "again.wav");
     expect(res.status).toBe(202);
     await t.runtime.queue.drained();
@@ -114,7 +116,7 @@ describe("voiding a strike", () => {
     const dup = await upload("maker", "F-0003", wrongRecording, "again-2.wav");
     expect(dup.status, JSON.stringify(dup.body)).toBe(202);
     await t.runtime.queue.drained();
-    expect((await unit("F-0003")).evaluation.strikesUsed).toBe(2);
+    expect((await unit("F-0003")).evaluation.strikesUsed).toBe(used + 1);
     expect((await post("maker", `/api/strikes/${dup.body.id}/void`, { reason: "Still the wrong unit." })).status).toBe(200);
   });
 
@@ -126,7 +128,7 @@ describe("voiding a strike", () => {
     const after = await unit("F-0002");
     expect(after.evaluation).toBeNull();
     const row = (await get("qa", `/api/batches/${batchId}`)).body.rows.find((r: { serial: string }) => r.serial === "F-0002");
-    expect(row).toMatchObject({ verdict: null, open: true, strikes: 0, voidedStrikes: 2 });
+    expect(row).toMatchObject({ verdict: null, open: true, strikes: 0, voidedStrikes: u.strikes.length });
     // Measured again, properly.
     expect((await upload("maker", "F-0002", forkWav({ frequencyHz: 440 * 2 ** (-0.8 / 1200), seed: 406 }), "F-0002-again.wav")).status).toBe(202);
     await t.runtime.queue.drained();
