@@ -22,15 +22,26 @@ describe("sign-in", () => {
     expect(res.body.message ?? res.body.error?.message).toMatch(/invalid email or password/i);
   });
 
-  it("limits repeated attempts from one address with 429, stored in the database", async () => {
+  it("limits repeated failed attempts from one address with 429, stored in the database", async () => {
     const statuses: number[] = [];
     for (let i = 0; i < 7; i++) statuses.push((await signIn("10.0.0.2", "wrong-password")).status);
     expect(statuses.slice(0, 5).every((s) => s === 401)).toBe(true);
     expect(statuses.at(-1)).toBe(429);
-    const rows = t.runtime.sqlite.prepare("SELECT count(*) AS n FROM rate_limit").get() as { n: number };
+    // Locked means locked: the right password from that address waits out the window too.
+    expect((await signIn("10.0.0.2", "tinelog-demo")).status).toBe(429);
+    const rows = t.runtime.sqlite.prepare("SELECT count(*) AS n FROM sign_in_failure").get() as { n: number };
     expect(rows.n).toBeGreaterThan(0);
     // Another address is not affected.
     expect((await signIn("10.0.0.3", "tinelog-demo")).status).toBe(200);
+  });
+
+  it("counts failed attempts only: a shared bench computer signing in correctly again and again is never locked out", async () => {
+    const statuses: number[] = [];
+    for (let i = 0; i < 8; i++) statuses.push((await signIn("10.0.0.5", "tinelog-demo")).status);
+    expect(statuses).toEqual(Array(8).fill(200));
+    // A colleague's one typo on the same computer still gets the plain 401, not a lock.
+    expect((await signIn("10.0.0.5", "wrong-password")).status).toBe(401);
+    expect((await signIn("10.0.0.5", "tinelog-demo")).status).toBe(200);
   });
 
   it("sets the session cookie HttpOnly and SameSite", async () => {
