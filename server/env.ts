@@ -29,7 +29,9 @@ const envSchema = z.object({
   WORKSHOP_QUOTA_MB: z.coerce.number().positive().default(2048),
   MIN_FREE_DISK_MB: z.coerce.number().nonnegative().default(200),
   ANALYSIS_THREADS: z.coerce.number().int().min(1).max(16).optional(),
+  /** Strikes that may wait for analysis on the whole server, and per workshop (its share). */
   ANALYSIS_QUEUE: z.coerce.number().int().min(1).default(200),
+  ANALYSIS_QUEUE_PER_WORKSHOP: z.coerce.number().int().min(1).default(50),
   REDIS_URL: z.string().url().optional(),
   TRUSTED_ORIGINS: z.string().optional(),
 });

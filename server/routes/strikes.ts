@@ -14,10 +14,11 @@ import { strikeUploadFieldsSchema } from "../../shared/schemas/strike.ts";
 import { serialFromFileName } from "../../shared/serials.ts";
 import { AnalysisInputError } from "../analysis/errors.ts";
 import { readWavHeader } from "../analysis/wav.ts";
-import { and, asc, count, eq, inArray } from "drizzle-orm";
-import { strike, unit } from "../db/schema.ts";
+import { and, asc, eq } from "drizzle-orm";
+import { unit } from "../db/schema.ts";
 import { badRequest, conflict, HttpError } from "../http-error.ts";
 import { requirePermission, userOf, workshopOf } from "../middleware/guards.ts";
+import { assertQueueRoom } from "../services/analysis-queue.ts";
 import { audit } from "../services/audit.ts";
 import { findBatch } from "../services/batches.ts";
 import { assertNotDuplicate, findUnit, getStrike, getUnit, insertStrike, nextUnmeasured, recordDisposition, strikeFile } from "../services/strikes.ts";
@@ -31,6 +32,7 @@ export function strikeRoutes(deps: AppDeps) {
   const { db, sqlite, storage, queue, env } = deps;
   const r = Router();
   const limitBytes = env.UPLOAD_LIMIT_MB * 1024 * 1024;
+  const queueLimits = { total: env.ANALYSIS_QUEUE, perWorkshop: env.ANALYSIS_QUEUE_PER_WORKSHOP };
   const tooLarge = () => new HttpError(413, "payload_too_large", `The recording is larger than the upload limit of ${env.UPLOAD_LIMIT_MB} MB. Trim it to the strike and its ring (a few seconds), then upload again.`);
 
   const receive = multer({
@@ -47,10 +49,8 @@ export function strikeRoutes(deps: AppDeps) {
     }
     try {
       storage.checkRoom(db, workshopOf(req).id, declared);
-      const [{ waiting }] = db.select({ waiting: count() }).from(strike).where(inArray(strike.state, ["queued", "analysing"])).all();
-      if (waiting >= env.ANALYSIS_QUEUE) {
-        throw new HttpError(503, "busy", `The analysis queue is full (${waiting} recordings waiting). Nothing was stored; upload again in a minute.`);
-      }
+      // Early, before the body is read; checked again exactly when the strike is inserted.
+      assertQueueRoom(db, workshopOf(req).id, queueLimits);
       next();
     } catch (error) {
       next(error);
@@ -100,6 +100,8 @@ export function strikeRoutes(deps: AppDeps) {
       const fileKey = storage.keep(file.path, actor.workshopId);
       kept = true;
       try {
+        // Queue room and insert in one synchronous step: concurrent uploads cannot pass the limit together.
+        assertQueueRoom(db, actor.workshopId, queueLimits);
         const row = insertStrike(db, actor, {
           unitId,
           originalName: file.originalname.slice(0, 255),
