@@ -14,15 +14,16 @@ export const strikeStateLabels: Record<StrikeState, string> = {
   failed: "Failed",
 };
 
-/** The multipart fields beside the `audio` file (strings on the wire). */
+/** Multipart fields are strings; blank (empty or spaces only) means "not given". */
+const blankAsEmpty = (v: unknown) => (typeof v === "string" ? v.trim() : v);
+
+/** The multipart fields beside the `audio` file (strings on the wire). A blank temperature is "not recorded", never 0 °C. */
 export const strikeUploadFieldsSchema = z.object({
   temperatureC: z
-    .union([z.literal(""), z.coerce.number({ error: "Temperature must be a number in °C" }).min(-30, "Temperature must be at least −30 °C").max(70, "Temperature must be at most 70 °C")])
-    .optional()
+    .preprocess(blankAsEmpty, z.union([z.literal(""), z.coerce.number({ error: "Temperature must be a number in °C" }).min(-30, "Temperature must be at least −30 °C").max(70, "Temperature must be at most 70 °C")]).optional())
     .transform((v) => (v === "" || v === undefined ? null : v)),
   support: z
-    .union([z.literal(""), z.enum(supports, { error: "Support must be one of: hand, suspended, stand, other" })])
-    .optional()
+    .preprocess(blankAsEmpty, z.union([z.literal(""), z.enum(supports, { error: "Support must be one of: hand, suspended, stand, other" })]).optional())
     .transform((v) => (v === "" || v === undefined ? null : v)),
 });
 export type StrikeUploadFields = z.infer<typeof strikeUploadFieldsSchema>;
