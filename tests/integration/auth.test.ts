@@ -95,6 +95,24 @@ describe("error shape and request checks", () => {
   });
 });
 
+describe("the local demo (npm start)", () => {
+  it("refuses a page on the development server's origin (localhost:5173) moving a batch with the owner's cookies", async () => {
+    const demo = await startTestApp({ DEMO_STRIKES: "0", NODE_ENV: "production", BASE_URL: "http://localhost:3999" });
+    try {
+      const signedIn = await request(demo.app).post("/api/auth/sign-in/email").set("Origin", "http://localhost:3999").send({ email: "owner@example.com", password: "tinelog-demo" });
+      const cookie = ([] as string[]).concat(signedIn.headers["set-cookie"] ?? []).map((c) => c.split(";")[0]).join("; ");
+      const batches = (await request(demo.app).get("/api/batches").set("Cookie", cookie)).body.batches as { id: string; code: string }[];
+      const open = batches.find((b) => b.code === "BTW-2612")!;
+      const res = await request(demo.app).post(`/api/batches/${open.id}/review`).set("Cookie", cookie).set("Origin", "http://localhost:5173").send({});
+      expect(res.status).toBe(403);
+      expect(batches.find((b) => b.code === "BTW-2612")).toBeTruthy();
+      expect((await request(demo.app).get(`/api/batches/${open.id}`).set("Cookie", cookie)).body.state).toBe("open");
+    } finally {
+      await demo.close();
+    }
+  });
+});
+
 describe("behind https", () => {
   it("marks the session cookie Secure and sends HSTS when the base URL is https", async () => {
     const secure = await startTestApp({ DEMO_STRIKES: "0", BASE_URL: "https://tinelog.example" });
