@@ -18,6 +18,7 @@ import {
   type CertificateResult,
   type LineResult,
 } from "../../shared/schemas/certificate.ts";
+import { useFallbackText } from "./fallback-text.ts";
 
 const require = createRequire(import.meta.url);
 const FONTS = {
@@ -211,6 +212,8 @@ export async function renderCertificatePdf(input: CertificateData): Promise<Buff
   doc.registerFont("regular", FONTS.regular);
   doc.registerFont("medium", FONTS.medium);
   doc.registerFont("semibold", FONTS.semibold);
+  // Names in scripts Inter lacks (CJK, Arabic, Hebrew) get a Noto fallback, right-to-left in order.
+  useFallbackText(doc);
 
   doc.on("pageAdded", () => drawHeader(doc, data));
   doc.addPage();
