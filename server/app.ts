@@ -16,7 +16,9 @@ import type { Logger } from "./logger.ts";
 import type { Mailer } from "./mail/mailer.ts";
 import { contextMiddleware, createSessionCache, sessionToken } from "./middleware/context.ts";
 import { apiNotFound, errorHandler } from "./middleware/errors.ts";
+import { readAuthBody, refuseDeclaredOversize, type BodyLimits } from "./middleware/body-limit.ts";
 import { sameOriginJson } from "./middleware/origin.ts";
+import { cleanStrings } from "../shared/text.ts";
 import { batchRoutes } from "./routes/batches.ts";
 import { certificateRoutes } from "./routes/certificates.ts";
 import { evaluationRoutes } from "./routes/evaluations.ts";
@@ -78,6 +80,8 @@ export function createApp(deps: AppDeps) {
     }),
   );
   app.use(pinoHttp({ logger: deps.logger, autoLogging: { ignore: (req) => !req.url?.startsWith("/api") } }));
+  const limits: BodyLimits = { authBytes: 16 * 1024, jsonBytes: 1024 * 1024, multipartBytes: deps.env.UPLOAD_LIMIT_MB * 1024 * 1024 + 64 * 1024 };
+  app.use(refuseDeclaredOversize(limits));
 
   // better-auth sees a Web Request without the socket, so it rate-limits by X-Forwarded-For. Give it
   // the client address Express resolved (trusting forwarded headers only from loopback proxies), so a
@@ -88,11 +92,16 @@ export function createApp(deps: AppDeps) {
     sessions.forget(sessionToken(req.headers.cookie)); // sign-out, switching workshop: re-read the session
     next();
   });
-  // better-auth reads its own body, so it goes before express.json().
-  app.all("/api/auth/{*any}", toNodeHandler(deps.auth));
+  // better-auth parses its own body (from req.body once read here under the limit), so it goes before express.json().
+  app.all("/api/auth/{*any}", readAuthBody(limits), toNodeHandler(deps.auth));
 
   const api = express.Router();
-  api.use(express.json({ limit: "1mb" }));
+  api.use(express.json({ limit: limits.jsonBytes }));
+  // Every stored text field arrives through here or the upload route: control characters go at the door.
+  api.use((req, _res, next) => {
+    if (req.body && typeof req.body === "object") req.body = cleanStrings(req.body);
+    next();
+  });
   api.use(contextMiddleware(deps.auth, deps.db, sessions));
   api.use(sameOriginJson(deps.env.trustedOrigins));
   for (const router of apiRouters(deps)) api.use(router);

@@ -28,7 +28,7 @@ export async function bootstrap(env: Env, logger: Logger = createLogger(env.LOG_
   const capture = env.SMTP_URL ? null : await startCaptureServer(db);
   const smtpUrl = env.SMTP_URL ?? `smtp://127.0.0.1:${capture!.port}?ignoreTLS=true`;
   const mailer = createMailer(db, { smtpUrl, defaultFrom: env.MAIL_FROM });
-  const auth = createAuth({ db, env, mailer });
+  const auth = createAuth({ db, env, mailer, logger });
   const storage = createStorage(env.DATA_DIR, { quotaBytes: env.WORKSHOP_QUOTA_MB * 1024 * 1024, minFreeBytes: env.MIN_FREE_DISK_MB * 1024 * 1024 });
   storage.sweepIncoming();
   sweepCertificateParts(env.DATA_DIR);

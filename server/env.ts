@@ -12,7 +12,8 @@ const boolish = z
   .transform((v) => v === "1" || v === "true");
 
 const envSchema = z.object({
-  NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
+  /** `npm run dev` sets development, the tests set test; anything else runs as production. */
+  NODE_ENV: z.enum(["development", "production", "test"]).default("production"),
   PORT: z.coerce.number().int().min(0).max(65535).default(3000),
   HOST: z.string().default("0.0.0.0"),
   DATA_DIR: z.string().default("./data"),
@@ -29,7 +30,9 @@ const envSchema = z.object({
   WORKSHOP_QUOTA_MB: z.coerce.number().positive().default(2048),
   MIN_FREE_DISK_MB: z.coerce.number().nonnegative().default(200),
   ANALYSIS_THREADS: z.coerce.number().int().min(1).max(16).optional(),
+  /** Strikes that may wait for analysis on the whole server, and per workshop (its share). */
   ANALYSIS_QUEUE: z.coerce.number().int().min(1).default(200),
+  ANALYSIS_QUEUE_PER_WORKSHOP: z.coerce.number().int().min(1).default(50),
   REDIS_URL: z.string().url().optional(),
   TRUSTED_ORIGINS: z.string().optional(),
 });
@@ -48,7 +51,13 @@ export class ConfigError extends Error {
   }
 }
 
-/** Reads the demo secret from DATA_DIR, creating it on first start (never used in production). */
+/** True for an address only this machine can open (localhost, 127.0.0.0/8, ::1). */
+export function isLoopbackUrl(url: string): boolean {
+  const host = new URL(url).hostname;
+  return host === "localhost" || host === "[::1]" || /^127(\.\d{1,3}){3}$/.test(host);
+}
+
+/** Reads the demo secret from DATA_DIR, creating it on first start (only for a server on a loopback address). */
 function demoSecret(dataDir: string): string {
   const file = path.join(dataDir, "auth-secret");
   if (existsSync(file)) return readFileSync(file, "utf8").trim();
@@ -63,23 +72,22 @@ export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
     throw new ConfigError(parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`));
   }
   const e = parsed.data;
-  const problems: string[] = [];
-  if (e.NODE_ENV === "production" && !e.BETTER_AUTH_SECRET) {
-    problems.push("BETTER_AUTH_SECRET: required in production (32+ random characters, e.g. `openssl rand -hex 32`)");
+  const baseUrl = (e.BASE_URL ?? `http://localhost:${e.PORT}`).replace(/\/$/, "");
+  // A production server others can reach (its BASE_URL is not a loopback address) must have a real
+  // secret. `npm start` with no BASE_URL is the local demo: it runs as production, on localhost, with
+  // the secret generated into DATA_DIR.
+  const local = isLoopbackUrl(baseUrl);
+  if (e.NODE_ENV === "production" && !e.BETTER_AUTH_SECRET && !local) {
+    throw new ConfigError([`BETTER_AUTH_SECRET: required in production for ${baseUrl} (32+ random characters, e.g. \`openssl rand -hex 32\`); only a server on a loopback address (localhost) may use a generated one`]);
   }
-  if (e.NODE_ENV === "production" && !e.BASE_URL) {
-    problems.push("BASE_URL: required in production (the public https address of this server)");
-  }
-  if (problems.length) throw new ConfigError(problems);
 
   const dataDir = path.resolve(e.DATA_DIR);
   mkdirSync(dataDir, { recursive: true });
-  const baseUrl = (e.BASE_URL ?? `http://localhost:${e.PORT}`).replace(/\/$/, "");
   const trustedOrigins = [baseUrl, ...(e.TRUSTED_ORIGINS?.split(",").map((s) => s.trim()).filter(Boolean) ?? [])];
-  if (e.NODE_ENV !== "production") {
-    // The Vite dev server (npm run dev) and the loopback spelling of the base URL.
-    trustedOrigins.push("http://localhost:5173", "http://127.0.0.1:5173", baseUrl.replace("localhost", "127.0.0.1"));
-  }
+  // The loopback spelling of a localhost base URL (a page opened at 127.0.0.1 instead).
+  if (local) trustedOrigins.push(baseUrl.replace("localhost", "127.0.0.1"));
+  // The Vite dev server's pages post to the API only under `npm run dev` (NODE_ENV=development).
+  if (e.NODE_ENV === "development") trustedOrigins.push("http://localhost:5173", "http://127.0.0.1:5173");
   return {
     ...e,
     DATA_DIR: dataDir,

@@ -26,6 +26,7 @@ import {
   type LineResult,
 } from "../../shared/schemas/certificate.ts";
 import { twoSignificant } from "../../shared/traceability.ts";
+import { useFallbackText } from "./fallback-text.ts";
 
 const require = createRequire(import.meta.url);
 const FONTS = {
@@ -264,6 +265,8 @@ export function openCertificateDocument(info: { title: string; author: string; s
   doc.registerFont("regular", FONTS.regular);
   doc.registerFont("medium", FONTS.medium);
   doc.registerFont("semibold", FONTS.semibold);
+  // Names in scripts Inter lacks (CJK, Arabic, Hebrew) get a Noto fallback, right-to-left in order.
+  useFallbackText(doc);
   return { doc, finished };
 }
 
@@ -273,6 +276,7 @@ function measureSections(sections: ((d: Doc) => void)[]): number[] {
   scratch.registerFont("regular", FONTS.regular);
   scratch.registerFont("medium", FONTS.medium);
   scratch.registerFont("semibold", FONTS.semibold);
+  useFallbackText(scratch);
   scratch.addPage();
   scratch.y = MARGIN.top;
   const heights = sections.map((draw) => {

@@ -61,8 +61,19 @@ export const auditEvent = sqliteTable(
     after: text("after", { mode: "json" }),
     at: createdAt(),
   },
-  (t) => [index("audit_event_workshop_idx").on(t.workshopId, t.at)],
+  (t) => [index("audit_event_workshop_idx").on(t.workshopId, t.at), index("audit_event_entity_idx").on(t.workshopId, t.entityId, t.id)],
 );
+
+/**
+ * Failed sign-ins counted per key (an address, or an address and an account) in a fixed window that
+ * starts at the first failure. Only failures count: a successful sign-in never uses up an attempt.
+ */
+export const signInFailure = sqliteTable("sign_in_failure", {
+  key: text("key").primaryKey(),
+  count: integer("count").notNull(),
+  /** When the window of this count began, ms since the epoch. */
+  windowStartedAt: integer("window_started_at").notNull(),
+});
 
 
 /** Workshop details used on certificates and in mail (one row per workshop). */

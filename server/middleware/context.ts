@@ -3,12 +3,12 @@
  * Handlers read `req.ctx`; they never look at cookies or role names themselves.
  */
 import { fromNodeHeaders } from "better-auth/node";
-import { and, asc, eq } from "drizzle-orm";
+import { and, asc, eq, sql } from "drizzle-orm";
 import type { NextFunction, Request, Response } from "express";
 import type { RoleName } from "../../shared/permissions.ts";
 import type { Auth } from "../auth.ts";
 import type { Db } from "../db/client.ts";
-import { member, organization } from "../db/schema.ts";
+import { member, organization, session as sessionTable } from "../db/schema.ts";
 
 export type Workshop = { id: string; name: string; slug: string; role: RoleName };
 
@@ -46,10 +46,23 @@ export function sessionToken(cookieHeader: string | undefined): string | null {
   return m ? m[1] : null;
 }
 
+/** The session row's token: the part of the signed cookie value before its signature. */
+function rowToken(cookieValue: string): string {
+  let value = cookieValue;
+  try {
+    value = decodeURIComponent(cookieValue);
+  } catch {
+    // not URL-encoded
+  }
+  return value.split(".")[0];
+}
+
 /**
  * better-auth's getSession costs about a millisecond; a bench tablet polls every second. Sessions are
  * kept here for a few seconds per token; any request to /api/auth/* with that token (sign-out,
- * switching workshop) forgets it at once. Roles are always read fresh below.
+ * switching workshop) forgets it at once, and every use checks that the session row still exists
+ * (an indexed look-up of a few microseconds), so a session ended anywhere (sign-out on another tab,
+ * removal from a workshop, a password reset) is refused on the next request. Roles are always read fresh below.
  */
 export function createSessionCache(ttlMs = 5000, max = 5000) {
   const entries = new Map<string, { found: Found; at: number }>();
@@ -75,12 +88,21 @@ export function createSessionCache(ttlMs = 5000, max = 5000) {
 export type SessionCache = ReturnType<typeof createSessionCache>;
 
 export function contextMiddleware(auth: Auth, db: Db, cache: SessionCache) {
+  const live = db
+    .select({ id: sessionTable.id })
+    .from(sessionTable)
+    .where(and(eq(sessionTable.token, sql.placeholder("token")), sql`${sessionTable.expiresAt} > ${sql.placeholder("now")}`))
+    .prepare();
   return async (req: Request, _res: Response, next: NextFunction) => {
     req.ctx = { user: null, sessionId: null, workshop: null };
     try {
       const token = sessionToken(req.headers.cookie);
       if (!token) return next();
       let found = cache.get(token);
+      if (found && !live.get({ token: rowToken(token), now: Date.now() })) {
+        cache.forget(token);
+        return next();
+      }
       if (found === undefined) {
         found = await auth.api.getSession({ headers: fromNodeHeaders(req.headers) });
         if (found) cache.set(token, found);

@@ -1,7 +1,7 @@
 /** Who is signed in, their workshops, and the public invitation look-up for the sign-up page. */
-import { eq } from "drizzle-orm";
+import { and, eq, gt } from "drizzle-orm";
 import { Router } from "express";
-import { invitation, organization, user } from "../db/schema.ts";
+import { invitation, organization } from "../db/schema.ts";
 import { notFound } from "../http-error.ts";
 import { listWorkshops } from "../middleware/context.ts";
 import { publicRoute } from "../middleware/guards.ts";
@@ -22,21 +22,17 @@ export function sessionRoutes({ db }: AppDeps) {
     res.json({ user: u, workshops: listWorkshops(db, u.id), activeWorkshop: req.ctx.workshop });
   });
 
+  /**
+   * Anyone holding the link sees what they need to decide, and no more: the workshop's name and the
+   * role. The address it was sent to and who sent it stay private (the link may be forwarded or
+   * leaked), and an invitation that is no longer open (accepted, cancelled, expired) is not found.
+   */
   r.get("/invitations/:id", publicRoute, (req, res) => {
     const row = db
-      .select({
-        id: invitation.id,
-        email: invitation.email,
-        role: invitation.role,
-        status: invitation.status,
-        expiresAt: invitation.expiresAt,
-        workshopName: organization.name,
-        inviterName: user.name,
-      })
+      .select({ id: invitation.id, workshopName: organization.name, role: invitation.role })
       .from(invitation)
       .innerJoin(organization, eq(organization.id, invitation.organizationId))
-      .innerJoin(user, eq(user.id, invitation.inviterId))
-      .where(eq(invitation.id, String(req.params.id)))
+      .where(and(eq(invitation.id, String(req.params.id)), eq(invitation.status, "pending"), gt(invitation.expiresAt, new Date())))
       .get();
     if (row) return res.json(row);
     // The invitation page asks with ?notFound=ok: an old or mistyped link is an expected visitor, not an error.

@@ -11,10 +11,11 @@ import { dispositionInputSchema, updateUnitSchema } from "../../shared/schemas/b
 import { strikeUploadFieldsSchema } from "../../shared/schemas/strike.ts";
 import { supersedeDispositionSchema, voidStrikeSchema } from "../../shared/schemas/corrections.ts";
 import { serialFromFileName } from "../../shared/serials.ts";
-import { and, asc, count, eq, inArray } from "drizzle-orm";
-import { disposition, strike, unit } from "../db/schema.ts";
+import { and, asc, eq } from "drizzle-orm";
+import { disposition, unit } from "../db/schema.ts";
 import { badRequest, conflict, HttpError, notFound } from "../http-error.ts";
 import { requirePermission, userOf, workshopOf } from "../middleware/guards.ts";
+import { assertQueueRoom } from "../services/analysis-queue.ts";
 import { audit } from "../services/audit.ts";
 import { findBatch } from "../services/batches.ts";
 import { recordDisposition, supersedeDisposition } from "../services/dispositions.ts";
@@ -26,15 +27,12 @@ import { wavUpload } from "./wav-upload.ts";
 export function strikeRoutes(deps: AppDeps) {
   const { db, sqlite, storage, queue, env } = deps;
   const r = Router();
+  const queueLimits = { total: env.ANALYSIS_QUEUE, perWorkshop: env.ANALYSIS_QUEUE_PER_WORKSHOP };
   const upload = wavUpload(deps);
   const multipart = upload.multipart;
-  // Beyond the upload's own checks: no new strike while the analysis queue is full.
-  const precheck = upload.precheck(() => {
-    const [{ waiting }] = db.select({ waiting: count() }).from(strike).where(inArray(strike.state, ["queued", "analysing"])).all();
-    if (waiting >= env.ANALYSIS_QUEUE) {
-      throw new HttpError(503, "busy", `The analysis queue is full (${waiting} recordings waiting). Nothing was stored; upload again in a minute.`);
-    }
-  });
+  // Beyond the upload's own checks: no new strike while the workshop's share of the analysis queue is
+  // full (early, before the body is read; checked again exactly when the strike is inserted).
+  const precheck = upload.precheck((req) => assertQueueRoom(db, workshopOf(req).id, queueLimits));
 
   async function accept(req: Request, unitId: string) {
     let kept = false;
@@ -50,6 +48,8 @@ export function strikeRoutes(deps: AppDeps) {
       const fileKey = storage.keep(file.path, actor.workshopId);
       kept = true;
       try {
+        // Queue room and insert in one synchronous step: concurrent uploads cannot pass the limit together.
+        assertQueueRoom(db, actor.workshopId, queueLimits);
         const row = insertStrike(db, actor, {
           unitId,
           originalName: file.originalname.slice(0, 255),

@@ -9,6 +9,7 @@ import { randomUUID } from "node:crypto";
 import { open } from "node:fs/promises";
 import type { NextFunction, Request, Response } from "express";
 import multer from "multer";
+import { cleanStrings, stripControlCharacters } from "../../shared/text.ts";
 import { AnalysisInputError } from "../analysis/errors.ts";
 import { readWavHeader, type WavHeader } from "../analysis/wav.ts";
 import { badRequest, HttpError } from "../http-error.ts";
@@ -26,6 +27,8 @@ export function wavUpload({ db, storage, env }: Pick<AppDeps, "db" | "storage" |
   const receive = multer({
     storage: multer.diskStorage({ destination: storage.incoming, filename: (_req, _file, cb) => cb(null, `${randomUUID()}.part`) }),
     limits: { fileSize: limitBytes, files: 1, fields: 10, fieldSize: 1024, parts: 12 },
+    // Browsers send the file name as UTF-8 bytes; read it so ("Stimmgabel-Ä.wav", "音叉.wav"), not as Latin-1.
+    defParamCharset: "utf8",
   }).single("audio");
 
   /** Refuses before reading the body when it cannot fit; `more` adds a route's own check (a full queue). */
@@ -48,11 +51,21 @@ export function wavUpload({ db, storage, env }: Pick<AppDeps, "db" | "storage" |
 
   const multipart = (req: Request, res: Response, next: NextFunction) => {
     receive(req, res, (error: unknown) => {
-      if (!error) return next();
+      if (!error) {
+        // Text fields and the file name are stored: no control characters (shared/text.ts).
+        req.body = cleanStrings(req.body ?? {});
+        if (req.file) req.file.originalname = stripControlCharacters(req.file.originalname);
+        return next();
+      }
       if (error instanceof multer.MulterError) {
         if (error.code === "LIMIT_FILE_SIZE") return next(tooLarge());
         if (error.code === "LIMIT_UNEXPECTED_FILE") return next(badRequest(`Put the WAV file in the field "audio", one file per request.`, { audio: "Expected one file in the field audio" }));
         return next(badRequest(`The upload could not be read (${error.message}).`));
+      }
+      // The multipart parser's own errors (a bad part header, no end boundary, no boundary) carry no
+      // system error code; a disk error (ENOSPC, EACCES) does and stays a server error.
+      if (error instanceof Error && !(error as NodeJS.ErrnoException).code) {
+        return next(badRequest(`The upload is not a well-formed multipart body (${error.message}). Send it again from Tinelog's upload screen, or as multipart/form-data with the WAV in the field "audio".`));
       }
       next(error);
     });

@@ -1,7 +1,8 @@
 /** The active workshop: its profile (used on certificates and mail), dashboard and audit trail. */
-import { and, desc, eq, inArray } from "drizzle-orm";
+import { and, desc, eq, inArray, lt } from "drizzle-orm";
 import { Router } from "express";
 import { SAMPLE_CLOCK_HALF_WIDTH_PPM, TEMPERATURE_COEFFICIENT_RELATIVE_HALF_WIDTH, THERMOMETER_HALF_WIDTH_C } from "../../shared/evaluation.ts";
+import { auditQuerySchema, type AuditPage } from "../../shared/schemas/audit.ts";
 import { workshopProfileSchema } from "../../shared/schemas/workshop.ts";
 import { auditEvent, certificate, strike, user, workshopProfile } from "../db/schema.ts";
 import { requirePermission, userOf, workshopOf } from "../middleware/guards.ts";
@@ -55,29 +56,37 @@ export function workshopRoutes({ db, readCache }: AppDeps) {
     res.json({ openBatches, awaitingReview, released: batches.length - openBatches.length, instrumentsDue: instrumentsDue(db, w) });
   });
 
+  /**
+   * The trail, newest first, a page of at most 100 events at a time (`cursor` = the previous page's
+   * `nextCursor`). Each row holds the actor's id; the name is joined here, so a long name is stored once.
+   */
   r.get("/audit", requirePermission("audit", "read"), (req, res) => {
     const w = workshopOf(req);
-    const entityId = typeof req.query.entityId === "string" ? req.query.entityId : undefined;
-    const unitId = typeof req.query.unitId === "string" ? req.query.unitId : undefined;
+    const q = auditQuerySchema.parse(req.query);
     // A unit's history: the unit's own events and those of its strikes and certificates.
-    const ids = unitId
+    const ids = q.unitId
       ? [
-          unitId,
-          ...db.select({ id: strike.id }).from(strike).where(and(eq(strike.unitId, unitId), eq(strike.workshopId, w.id))).all().map((r) => r.id),
-          ...db.select({ id: certificate.id }).from(certificate).where(and(eq(certificate.unitId, unitId), eq(certificate.workshopId, w.id))).all().map((r) => r.id),
+          q.unitId,
+          ...db.select({ id: strike.id }).from(strike).where(and(eq(strike.unitId, q.unitId), eq(strike.workshopId, w.id))).all().map((r) => r.id),
+          ...db.select({ id: certificate.id }).from(certificate).where(and(eq(certificate.unitId, q.unitId), eq(certificate.workshopId, w.id))).all().map((r) => r.id),
         ]
-      : entityId
-        ? [entityId]
+      : q.entityId
+        ? [q.entityId]
         : null;
     const rows = db
       .select({ e: auditEvent, actor: user.name })
       .from(auditEvent)
       .leftJoin(user, eq(user.id, auditEvent.actorId))
-      .where(ids ? and(eq(auditEvent.workshopId, w.id), inArray(auditEvent.entityId, ids)) : eq(auditEvent.workshopId, w.id))
+      .where(and(eq(auditEvent.workshopId, w.id), ids ? inArray(auditEvent.entityId, ids) : undefined, q.cursor ? lt(auditEvent.id, Number(q.cursor)) : undefined))
       .orderBy(desc(auditEvent.id))
-      .limit(500)
+      .limit(q.limit + 1)
       .all();
-    res.json({ events: rows.map(({ e, actor }) => ({ id: e.id, action: e.action, entity: e.entity, entityId: e.entityId, before: e.before, after: e.after, at: e.at.toISOString(), actor: actor ?? "Tinelog" })) });
+    const page = rows.slice(0, q.limit);
+    const body: AuditPage = {
+      events: page.map(({ e, actor }) => ({ id: e.id, action: e.action, entity: e.entity, entityId: e.entityId, before: e.before, after: e.after, at: e.at.toISOString(), actor: actor ?? "Tinelog" })),
+      nextCursor: rows.length > q.limit ? String(page.at(-1)!.e.id) : null,
+    };
+    res.json(body);
   });
 
   return r;

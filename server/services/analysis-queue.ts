@@ -3,10 +3,16 @@
  * so the queue is the table: on start, strikes left analysing by a crash go back to queued and
  * everything queued is picked up again. The embedded runner analyses in the worker pool of this
  * process; with REDIS_URL the same jobs go through BullMQ (server/services/redis-queue.ts).
+ *
+ * Fair to every workshop on the server: each has its own share of waiting places (a per-workshop
+ * limit beside the server's total, checked in the same synchronous step as the insert, so it is
+ * exact however many uploads arrive at once), and the next strike to analyse is chosen round-robin
+ * across workshops (claimNext), so one workshop's flood never holds another's upload behind it.
  */
-import { and, asc, eq, inArray } from "drizzle-orm";
+import { and, count, eq, inArray } from "drizzle-orm";
 import type { Db, Sqlite } from "../db/client.ts";
 import { strike } from "../db/schema.ts";
+import { HttpError } from "../http-error.ts";
 import type { Logger } from "../logger.ts";
 import { AnalysisInputError } from "../analysis/errors.ts";
 import { PoolBusyError, type AnalysisPool } from "../workers/analysis-pool.ts";
@@ -50,14 +56,49 @@ export async function runStrike(deps: { db: Db; sqlite: Sqlite; storage: Storage
   }
 }
 
-/** Claims the next queued strike (marks it analysing, counts the attempt). */
-function claim(db: Db, exclude: Set<string>): string | null {
-  return db.transaction((tx) => {
-    const next = tx.select({ id: strike.id, attempts: strike.attempts }).from(strike).where(eq(strike.state, "queued")).orderBy(asc(strike.uploadedAt), asc(strike.id)).limit(exclude.size + 1).all().find((r) => !exclude.has(r.id));
-    if (!next) return null;
-    tx.update(strike).set({ state: "analysing", startedAt: new Date(), attempts: next.attempts + 1 }).where(and(eq(strike.id, next.id), eq(strike.state, "queued"))).run();
-    return next.id;
-  });
+/** How many strikes may wait (queued or analysing): on the whole server, and per workshop. */
+export type QueueLimits = { total: number; perWorkshop: number };
+
+/**
+ * Refuses a new strike (503) when its workshop's share or the server's total is taken. Call it in the
+ * same synchronous step (or transaction) as the insert: nothing can slip in between the count and the row.
+ */
+export function assertQueueRoom(db: Pick<Db, "select">, workshopId: string, limits: QueueLimits): void {
+  const waiting = inArray(strike.state, ["queued", "analysing"]);
+  const [{ mine }] = db.select({ mine: count() }).from(strike).where(and(waiting, eq(strike.workshopId, workshopId))).all();
+  if (mine >= limits.perWorkshop) {
+    throw new HttpError(503, "busy", `Your workshop already has ${mine} recordings waiting for analysis, its full share of the queue. Nothing was stored; upload again when some are done (usually a minute or two).`);
+  }
+  const [{ all }] = db.select({ all: count() }).from(strike).where(waiting).all();
+  if (all >= limits.total) {
+    throw new HttpError(503, "busy", `The analysis queue is full (${all} recordings waiting). Nothing was stored; upload again in a minute.`);
+  }
+}
+
+/**
+ * Claims the next strike to analyse, round-robin across workshops, in one statement (atomic also
+ * between processes): each queued strike's place is its workshop's strikes already analysing plus its
+ * rank in its workshop's queue; the lowest place goes first, the older upload on a tie. Two workshops
+ * with ten strikes each alternate; a workshop with one strike waits for at most one of the other's.
+ * Marks the strike analysing and counts the attempt.
+ */
+export function claimNext(sqlite: Sqlite): string | null {
+  // Column names as in drizzle/ (strike.uploadedAt is the created_at column).
+  const row = sqlite
+    .prepare(
+      `UPDATE strike SET state = 'analysing', started_at = ?, attempts = attempts + 1
+       WHERE state = 'queued' AND id = (
+         SELECT id FROM (
+           SELECT s.id, s.created_at AS uploaded_at,
+             ROW_NUMBER() OVER (PARTITION BY s.workshop_id ORDER BY s.created_at, s.id)
+               + (SELECT count(*) FROM strike a WHERE a.state = 'analysing' AND a.workshop_id = s.workshop_id) AS place
+           FROM strike s WHERE s.state = 'queued'
+         ) ORDER BY place, uploaded_at, id LIMIT 1
+       )
+       RETURNING id`,
+    )
+    .get(Date.now()) as { id: string } | undefined;
+  return row?.id ?? null;
 }
 
 /** Strikes a crash left in `analysing` go back to the queue. */
@@ -87,7 +128,7 @@ export function createInProcessQueue(deps: { db: Db; sqlite: Sqlite; storage: St
 
   function pump() {
     while (!closed && running.size < deps.concurrency) {
-      const id = claim(db, running);
+      const id = claimNext(deps.sqlite);
       if (!id) break;
       running.add(id);
       runStrike(deps, id, (_sid, path) => pool.analyzeFile(path, { plot: true }))

@@ -3,15 +3,19 @@
  * worker processes share the work. SQLite stays the source of truth for a strike's state (the job
  * only carries its id), so the guarantees of the embedded queue hold: a lost job is re-added from
  * the table on start, and a strike is recorded once however often its job runs.
+ *
+ * A job is a turn, not an order: the worker that takes it claims the next strike round-robin across
+ * workshops (claimNext), which may be another job's strike; that job later takes the turn left over.
+ * There is one job per queued strike, so every strike gets its turn, and the order stays fair.
  */
 import { Queue, Worker } from "bullmq";
 import { Redis } from "ioredis";
-import { and, eq, inArray } from "drizzle-orm";
+import { eq, inArray } from "drizzle-orm";
 import type { Db, Sqlite } from "../db/client.ts";
 import { strike } from "../db/schema.ts";
 import type { Logger } from "../logger.ts";
 import type { AnalysisPool } from "../workers/analysis-pool.ts";
-import { requeueInterrupted, runStrike, type AnalysisQueue } from "./analysis-queue.ts";
+import { claimNext, requeueInterrupted, runStrike, type AnalysisQueue } from "./analysis-queue.ts";
 import type { Storage } from "./storage.ts";
 
 export const QUEUE_NAME = "tinelog-analysis";
@@ -24,10 +28,9 @@ export function createRedisQueue(deps: { db: Db; sqlite: Sqlite; storage: Storag
 
   const worker = new Worker<{ strikeId: string }>(
     QUEUE_NAME,
-    async (job) => {
-      const { strikeId } = job.data;
-      const claimed = db.update(strike).set({ state: "analysing", startedAt: new Date(), attempts: job.attemptsMade + 1 }).where(and(eq(strike.id, strikeId), inArray(strike.state, ["queued", "analysing"]))).run().changes;
-      if (!claimed) return "already finished";
+    async () => {
+      const strikeId = claimNext(deps.sqlite);
+      if (!strikeId) return "nothing waiting";
       const outcome = await runStrike(deps, strikeId, (_id, file) => pool.analyzeFile(file, { plot: true }));
       if (outcome === "retry") {
         db.update(strike).set({ state: "queued" }).where(eq(strike.id, strikeId)).run();

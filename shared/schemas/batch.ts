@@ -36,10 +36,12 @@ export const createBatchSchema = z.object({
 });
 export type CreateBatchInput = z.infer<typeof createBatchSchema>;
 
-export const updateUnitSchema = z.object({
-  customerName: z.string().trim().max(200).nullable().optional(),
-  customerEmail: z.email("Enter a valid e-mail address").nullable().optional().or(z.literal("").transform(() => null)),
-});
+export const updateUnitSchema = z
+  .object({
+    customerName: z.string().trim().max(200).nullable().optional(),
+    customerEmail: z.email("Enter a valid e-mail address").nullable().optional().or(z.literal("").transform(() => null)),
+  })
+  .refine((v) => v.customerName !== undefined || v.customerEmail !== undefined, { message: "Send customerName or customerEmail (or both) to change.", path: ["customerName"] });
 export type UpdateUnitInput = z.infer<typeof updateUnitSchema>;
 
 export type BatchSummary = {

@@ -16,24 +16,24 @@ export const strikeStateLabels: Record<StrikeState, string> = {
   failed: "Failed",
 };
 
+/** Multipart fields are strings; blank (empty or spaces only) means "not given". */
+const blankAsEmpty = (v: unknown) => (typeof v === "string" ? v.trim() : v);
+
 const instrumentId = (what: string) =>
   z
-    .union([z.literal(""), z.string().trim().max(64, `That is not a ${what} id.`)])
-    .optional()
+    .preprocess(blankAsEmpty, z.union([z.literal(""), z.string().max(64, `That is not a ${what} id.`)]).optional())
     .transform((v) => (v === "" || v === undefined ? null : v));
 
 /** The instruments a strike was measured with: the recorder, and the thermometer its temperature was read on. */
 export const strikeInstrumentFields = { recorderId: instrumentId("recorder"), thermometerId: instrumentId("thermometer") };
 
-/** The multipart fields beside the `audio` file (strings on the wire). */
+/** The multipart fields beside the `audio` file (strings on the wire). A blank temperature is "not recorded", never 0 °C. */
 export const strikeUploadFieldsSchema = z.object({
   temperatureC: z
-    .union([z.literal(""), z.coerce.number({ error: "Temperature must be a number in °C" }).min(-30, "Temperature must be at least −30 °C").max(70, "Temperature must be at most 70 °C")])
-    .optional()
+    .preprocess(blankAsEmpty, z.union([z.literal(""), z.coerce.number({ error: "Temperature must be a number in °C" }).min(-30, "Temperature must be at least −30 °C").max(70, "Temperature must be at most 70 °C")]).optional())
     .transform((v) => (v === "" || v === undefined ? null : v)),
   support: z
-    .union([z.literal(""), z.enum(supports, { error: "Support must be one of: hand, suspended, stand, other" })])
-    .optional()
+    .preprocess(blankAsEmpty, z.union([z.literal(""), z.enum(supports, { error: "Support must be one of: hand, suspended, stand, other" })]).optional())
     .transform((v) => (v === "" || v === undefined ? null : v)),
   ...strikeInstrumentFields,
 });

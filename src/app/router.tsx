@@ -26,7 +26,11 @@ import { UnitRoute, unitLoader } from "./routes/app/units/unit";
 import { MembersRoute, membersLoader } from "./routes/app/members";
 import { OutboxMessageRoute, outboxMessageLoader } from "./routes/app/outbox-message";
 import { OutboxRoute, outboxLoader } from "./routes/app/outbox";
+import { CheckMailRoute } from "./routes/auth/check-mail";
 import { CreateWorkshopRoute, createWorkshopLoader } from "./routes/auth/create-workshop";
+import { EmailConfirmedRoute, emailConfirmedLoader } from "./routes/auth/email-confirmed";
+import { ForgotPasswordRoute } from "./routes/auth/forgot-password";
+import { ResetPasswordRoute } from "./routes/auth/reset-password";
 import { SignInRoute, signInLoader } from "./routes/auth/sign-in";
 import { SignUpRoute, signUpLoader } from "./routes/auth/sign-up";
 import { InvitationRoute, invitationLoader } from "./routes/public/invitation";
@@ -46,6 +50,10 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
         { path: paths.auth.signIn.path, loader: signInLoader(queryClient), element: <SignInRoute />, errorElement },
         { path: paths.auth.signUp.path, loader: signUpLoader(queryClient), element: <SignUpRoute />, errorElement },
         { path: paths.auth.createWorkshop.path, loader: createWorkshopLoader(queryClient), element: <CreateWorkshopRoute />, errorElement },
+        { path: paths.auth.checkMail.path, element: <CheckMailRoute />, errorElement },
+        { path: paths.auth.emailConfirmed.path, loader: emailConfirmedLoader(queryClient), element: <EmailConfirmedRoute />, errorElement },
+        { path: paths.auth.forgotPassword.path, element: <ForgotPasswordRoute />, errorElement },
+        { path: paths.auth.resetPassword.path, element: <ResetPasswordRoute />, errorElement },
         {
           // No sign-in needed below here: the invitation landing and certificate verification.
           element: <PublicLayout />,
@@ -55,7 +63,7 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
               path: paths.public.invitation.path,
               loader: invitationLoader(queryClient),
               element: <InvitationRoute />,
-              errorElement: <RouteError notFoundHint="Check that the whole link from your invitation e-mail was opened, or ask the workshop owner to send a new invitation." />,
+              errorElement: <RouteError notFoundHint="This invitation is not open any more: it was accepted, cancelled or has expired, or the link was not opened whole. If you joined already, sign in; otherwise ask the workshop owner to send a new invitation." />,
             },
             {
               path: paths.public.verify.path,

@@ -17,6 +17,19 @@ export const paths = {
         `/sign-up${redirectTo ? `?redirectTo=${encodeURIComponent(redirectTo)}` : ""}`,
     },
     createWorkshop: { path: "/create-workshop", getHref: () => "/create-workshop" },
+    /** After sign-up: the confirmation link is on its way. `next` is where the link leads afterwards. */
+    checkMail: {
+      path: "/check-your-mail",
+      getHref: (email: string, next?: string | null) => `/check-your-mail?${new URLSearchParams({ email, ...(next ? { next } : {}) })}`,
+    },
+    /** Where the confirmation link lands (signed in by then); it goes on to `next`, or shows what went wrong. */
+    emailConfirmed: {
+      path: "/email-confirmed",
+      getHref: (next?: string | null) => `/email-confirmed${next ? `?next=${encodeURIComponent(next)}` : ""}`,
+    },
+    forgotPassword: { path: "/forgot-password", getHref: () => "/forgot-password" },
+    /** The reset link lands here with `?token=` (or `?error=INVALID_TOKEN`). */
+    resetPassword: { path: "/reset-password", getHref: () => "/reset-password" },
   },
 
   /** Pages anyone may open without signing in: the invitation landing and certificate verification. */

@@ -14,7 +14,15 @@ export const authClient = createAuthClient({
   plugins: [organizationClient({ ac, roles })],
 });
 
-type AuthErrorLike = { status?: number; statusText?: string; code?: string; message?: string } | null | undefined;
+type AuthErrorLike = { status?: number; statusText?: string; code?: string; message?: string; fields?: Record<string, string> } | null | undefined;
+
+/** The library names a new password `newPassword`; Tinelog's forms call the field `password`. */
+function formFields(fields: Record<string, string> | undefined): Record<string, string> | undefined {
+  if (!fields) return undefined;
+  const out: Record<string, string> = {};
+  for (const [key, message] of Object.entries(fields)) out[key === "newPassword" ? "password" : key] = message;
+  return out;
+}
 type AuthResult<T> = { data: T | null; error: AuthErrorLike } | { data: T; error: null };
 
 /** better-auth answers `{ data, error }`; we want a value or a thrown `ApiError`, like the rest of the API. */
@@ -29,7 +37,7 @@ export async function unwrap<T>(call: Promise<AuthResult<T>>): Promise<T> {
   if (result.error) {
     const status = result.error.status ?? 500;
     const message = status === 429 ? fallbackMessage(429) : result.error.message || fallbackMessage(status);
-    throw new ApiError(status, (result.error.code ?? `http_${status}`).toLowerCase(), message);
+    throw new ApiError(status, (result.error.code ?? `http_${status}`).toLowerCase(), message, formFields(result.error.fields));
   }
   return result.data as T;
 }

@@ -5,6 +5,7 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import type { RoleName } from "@shared/permissions";
 import type { SignInInput, SignUpInput } from "@shared/schemas/account";
+import { paths } from "@/config/paths";
 import { api, isApiError } from "./api-client";
 import { authClient, unwrap } from "./auth-client";
 
@@ -33,12 +34,28 @@ export function useMe() {
   return useQuery(getMeQueryOptions());
 }
 
-export function signIn(input: SignInInput) {
-  return unwrap(authClient.signIn.email({ email: input.email, password: input.password }));
+/** `next`: where a fresh confirmation link (sent when the address is not confirmed yet) should lead. */
+export function signIn(input: SignInInput & { next?: string | null }) {
+  return unwrap(authClient.signIn.email({ email: input.email, password: input.password, callbackURL: paths.auth.emailConfirmed.getHref(input.next) }));
 }
 
-export function signUp(input: SignUpInput) {
-  return unwrap(authClient.signUp.email({ name: input.name, email: input.email, password: input.password }));
+/** Creates the account; nobody is signed in until the address is confirmed through the mailed link. */
+export function signUp(input: SignUpInput & { next?: string | null }) {
+  return unwrap(authClient.signUp.email({ name: input.name, email: input.email, password: input.password, callbackURL: paths.auth.emailConfirmed.getHref(input.next) }));
+}
+
+/** Sends the confirmation link again (the answer is the same whether or not the address has an account). */
+export function resendConfirmation(email: string, next?: string | null) {
+  return unwrap(authClient.sendVerificationEmail({ email, callbackURL: paths.auth.emailConfirmed.getHref(next) }));
+}
+
+/** Mails a reset link if the address has an account; the answer is the same either way. */
+export function requestPasswordReset(email: string) {
+  return unwrap(authClient.requestPasswordReset({ email, redirectTo: paths.auth.resetPassword.getHref() }));
+}
+
+export function resetPassword(token: string, password: string) {
+  return unwrap(authClient.resetPassword({ token, newPassword: password }));
 }
 
 /**
@@ -61,8 +78,7 @@ export function useSignIn() {
 }
 
 export function useSignUp() {
-  const reset = useResetAfterIdentityChange();
-  return useMutation({ mutationFn: signUp, onSuccess: reset });
+  return useMutation({ mutationFn: signUp });
 }
 
 /**

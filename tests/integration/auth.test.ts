@@ -22,15 +22,26 @@ describe("sign-in", () => {
     expect(res.body.message ?? res.body.error?.message).toMatch(/invalid email or password/i);
   });
 
-  it("limits repeated attempts from one address with 429, stored in the database", async () => {
+  it("limits repeated failed attempts from one address with 429, stored in the database", async () => {
     const statuses: number[] = [];
     for (let i = 0; i < 7; i++) statuses.push((await signIn("10.0.0.2", "wrong-password")).status);
     expect(statuses.slice(0, 5).every((s) => s === 401)).toBe(true);
     expect(statuses.at(-1)).toBe(429);
-    const rows = t.runtime.sqlite.prepare("SELECT count(*) AS n FROM rate_limit").get() as { n: number };
+    // Locked means locked: the right password from that address waits out the window too.
+    expect((await signIn("10.0.0.2", "tinelog-demo")).status).toBe(429);
+    const rows = t.runtime.sqlite.prepare("SELECT count(*) AS n FROM sign_in_failure").get() as { n: number };
     expect(rows.n).toBeGreaterThan(0);
     // Another address is not affected.
     expect((await signIn("10.0.0.3", "tinelog-demo")).status).toBe(200);
+  });
+
+  it("counts failed attempts only: a shared bench computer signing in correctly again and again is never locked out", async () => {
+    const statuses: number[] = [];
+    for (let i = 0; i < 8; i++) statuses.push((await signIn("10.0.0.5", "tinelog-demo")).status);
+    expect(statuses).toEqual(Array(8).fill(200));
+    // A colleague's one typo on the same computer still gets the plain 401, not a lock.
+    expect((await signIn("10.0.0.5", "wrong-password")).status).toBe(401);
+    expect((await signIn("10.0.0.5", "tinelog-demo")).status).toBe(200);
   });
 
   it("sets the session cookie HttpOnly and SameSite", async () => {
@@ -81,6 +92,24 @@ describe("error shape and request checks", () => {
     expect(res.headers["x-content-type-options"]).toBe("nosniff");
     expect(res.headers["content-security-policy"]).toContain("default-src 'self'");
     expect(res.headers["x-powered-by"]).toBeUndefined();
+  });
+});
+
+describe("the local demo (npm start)", () => {
+  it("refuses a page on the development server's origin (localhost:5173) moving a batch with the owner's cookies", async () => {
+    const demo = await startTestApp({ DEMO_STRIKES: "0", NODE_ENV: "production", BASE_URL: "http://localhost:3999" });
+    try {
+      const signedIn = await request(demo.app).post("/api/auth/sign-in/email").set("Origin", "http://localhost:3999").send({ email: "owner@example.com", password: "tinelog-demo" });
+      const cookie = ([] as string[]).concat(signedIn.headers["set-cookie"] ?? []).map((c) => c.split(";")[0]).join("; ");
+      const batches = (await request(demo.app).get("/api/batches").set("Cookie", cookie)).body.batches as { id: string; code: string }[];
+      const open = batches.find((b) => b.code === "BTW-2612")!;
+      const res = await request(demo.app).post(`/api/batches/${open.id}/review`).set("Cookie", cookie).set("Origin", "http://localhost:5173").send({});
+      expect(res.status).toBe(403);
+      expect(batches.find((b) => b.code === "BTW-2612")).toBeTruthy();
+      expect((await request(demo.app).get(`/api/batches/${open.id}`).set("Cookie", cookie)).body.state).toBe("open");
+    } finally {
+      await demo.close();
+    }
   });
 });
 

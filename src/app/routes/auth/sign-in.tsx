@@ -25,7 +25,7 @@ export function SignInRoute() {
         </>
       }
     >
-      <SignInForm onSuccess={() => navigate(safeRedirect(redirectTo), { replace: true })} />
+      <SignInForm next={safeRedirect(redirectTo)} onSuccess={() => navigate(safeRedirect(redirectTo), { replace: true })} />
     </AuthLayout>
   );
 }

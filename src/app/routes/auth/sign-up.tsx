@@ -30,7 +30,10 @@ export function SignUpRoute() {
         </>
       }
     >
-      <SignUpForm onSuccess={() => navigate(redirectTo ? safeRedirect(redirectTo) : paths.auth.createWorkshop.getHref(), { replace: true })} />
+      <SignUpForm
+        next={redirectTo ? safeRedirect(redirectTo) : paths.auth.createWorkshop.getHref()}
+        onSuccess={(email) => navigate(paths.auth.checkMail.getHref(email, redirectTo ? safeRedirect(redirectTo) : paths.auth.createWorkshop.getHref()), { replace: true })}
+      />
     </AuthLayout>
   );
 }

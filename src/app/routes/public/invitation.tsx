@@ -12,18 +12,13 @@ import { SignUpForm } from "@/features/auth/components/sign-up-form";
 import { useAcceptInvitation } from "@/features/invitations/api/accept-invitation";
 import { getInvitationQueryOptions, invitationFound, useInvitation, type PublicInvitation } from "@/features/invitations/api/get-invitation";
 import { InvitationSummary } from "@/features/invitations/components/invitation-summary";
+import { isApiError } from "@/lib/api-client";
 import { getMeQueryOptions, useMe, useSignOut } from "@/lib/auth";
 
 export const invitationLoader = (queryClient: QueryClient) => async ({ params }: LoaderFunctionArgs) => {
   // An unknown invitation comes back as { found: false }; the page says so plainly.
   await Promise.all([queryClient.ensureQueryData(getInvitationQueryOptions(params.id ?? "")), queryClient.ensureQueryData(getMeQueryOptions())]);
   return null;
-};
-
-const statusText: Record<Exclude<PublicInvitation["status"], "pending">, string> = {
-  accepted: "This invitation has already been accepted. Sign in to reach the workshop.",
-  rejected: "This invitation was declined. Ask the workshop owner to send a new one.",
-  canceled: "The workshop owner cancelled this invitation. Ask them to send a new one if you should join.",
 };
 
 export function InvitationRoute() {
@@ -51,29 +46,11 @@ export function InvitationRoute() {
     );
   }
 
-  const expired = new Date(invitation.data.expiresAt).getTime() <= Date.now();
   return (
-    <AuthLayout
-      title={`Join ${invitation.data.workshopName}`}
-      intro={`${invitation.data.inviterName} invited you to work in this workshop as ${roleLabels[invitation.data.role] ?? invitation.data.role}.`}
-    >
+    <AuthLayout title={`Join ${invitation.data.workshopName}`} intro={`You are invited to work in this workshop as ${roleLabels[invitation.data.role] ?? invitation.data.role}.`}>
       <div className="flex flex-col gap-6">
         <InvitationSummary invitation={invitation.data} />
-        {invitation.data.status === "accepted" && me.data ? (
-          <Alert tone="success" title="This invitation has been accepted.">
-            <ButtonLink className="mt-2" to={paths.app.root.getHref()} variant="primary">
-              Go to the dashboard
-            </ButtonLink>
-          </Alert>
-        ) : invitation.data.status !== "pending" ? (
-          <Alert tone="caution">{statusText[invitation.data.status]}</Alert>
-        ) : expired ? (
-          <Alert tone="caution">This invitation has expired. Ask the workshop owner to send a new one.</Alert>
-        ) : me.data ? (
-          <SignedIn invitation={invitation.data} email={me.data.user.email} />
-        ) : (
-          <SignedOut invitation={invitation.data} />
-        )}
+        {me.data ? <SignedIn invitation={invitation.data} email={me.data.user.email} /> : <SignedOut invitation={invitation.data} />}
       </div>
     </AuthLayout>
   );
@@ -83,11 +60,13 @@ function SignedIn({ invitation, email }: { invitation: PublicInvitation; email: 
   const navigate = useNavigate();
   const accept = useAcceptInvitation(invitation.id);
   const signOut = useSignOut();
+  // The look-up does not say whom the invitation is for; the server checks it when accepting.
+  const notForYou = isApiError(accept.error) && accept.error.code === "you_are_not_the_recipient_of_the_invitation";
 
-  if (email.toLowerCase() !== invitation.email.toLowerCase()) {
+  if (notForYou) {
     return (
       <Alert tone="caution" title={`You are signed in as ${email}`}>
-        <p>This invitation is for {invitation.email}. Sign out, then open the link again to join with that address.</p>
+        <p>This invitation was sent to another address. Sign out, then open the link again and sign in (or create the account) with the invited address.</p>
         <Button className="mt-3" variant="secondary" pending={signOut.isPending} onClick={() => signOut.mutate(paths.public.invitation.getHref(invitation.id))}>
           Sign out
         </Button>
@@ -96,6 +75,7 @@ function SignedIn({ invitation, email }: { invitation: PublicInvitation; email: 
   }
   return (
     <div className="flex flex-col gap-3">
+      <p className="text-ink-soft">You are signed in as {email}.</p>
       {accept.error ? <Alert tone="error">{accept.error.message}</Alert> : null}
       <Button
         pending={accept.isPending}
@@ -115,13 +95,15 @@ function SignedIn({ invitation, email }: { invitation: PublicInvitation; email: 
 }
 
 function SignedOut({ invitation }: { invitation: PublicInvitation }) {
+  const navigate = useNavigate();
   const [mode, setMode] = useState<"sign-up" | "sign-in">("sign-up");
-  // After the account step `me` is no longer null and the page shows the "Join" step (SignedIn).
+  const here = paths.public.invitation.getHref(invitation.id);
+  // After signing in `me` is no longer null and the page shows the "Join" step (SignedIn).
   const noop = () => undefined;
 
   return (
     <div className="flex flex-col gap-4">
-      <p className="text-ink-soft">First create your account or sign in with {invitation.email}; then you join the workshop.</p>
+      <p className="text-ink-soft">Use the e-mail address the invitation was sent to. A new account confirms its address first; the link in that mail brings you back here to join.</p>
       <div role="group" aria-label="How do you want to continue?" className="grid grid-cols-2 gap-1 rounded-control border border-line-strong p-1">
         {(
           [
@@ -141,9 +123,9 @@ function SignedOut({ invitation }: { invitation: PublicInvitation }) {
         ))}
       </div>
       {mode === "sign-up" ? (
-        <SignUpForm lockedEmail={invitation.email} onSuccess={noop} submitLabel="Create account" />
+        <SignUpForm next={here} onSuccess={(email) => navigate(paths.auth.checkMail.getHref(email, here))} submitLabel="Create account" />
       ) : (
-        <SignInForm lockedEmail={invitation.email} onSuccess={noop} submitLabel="Sign in" />
+        <SignInForm next={here} onSuccess={noop} submitLabel="Sign in" />
       )}
     </div>
   );

@@ -2,15 +2,14 @@ import { queryOptions, useQuery } from "@tanstack/react-query";
 import type { RoleName } from "@shared/permissions";
 import { api } from "@/lib/api-client";
 
-/** What the public invitation landing may show before anyone signs in (GET /api/invitations/:id). */
+/**
+ * What the public invitation landing may show before anyone signs in (GET /api/invitations/:id):
+ * the workshop and the role, and only while the invitation is open (404 otherwise).
+ */
 export type PublicInvitation = {
   id: string;
-  email: string;
   role: RoleName;
-  status: "pending" | "accepted" | "rejected" | "canceled";
   workshopName: string;
-  inviterName: string;
-  expiresAt: string;
 };
 
 /** The invitation, or `{ found: false }` (asked with ?notFound=ok, so an old link logs no error). */

@@ -1,17 +1,25 @@
-import { queryOptions, useQuery } from "@tanstack/react-query";
+import { infiniteQueryOptions, useInfiniteQuery } from "@tanstack/react-query";
+import type { AuditEvent, AuditPage } from "@shared/schemas/audit";
 import { api } from "@/lib/api-client";
 
-export type AuditEvent = { id: number | string; action: string; entity: string; entityId: string; before: unknown; after: unknown; at: string; actor: string };
+export type { AuditEvent };
 
-/** The unit's audit trail (append-only on the server): evaluations, dispositions, customer changes. */
-export async function getUnitHistory(unitId: string): Promise<AuditEvent[]> {
-  return (await api.get<{ events: AuditEvent[] }>(`/api/audit?unitId=${encodeURIComponent(unitId)}`)).events;
+/** One page of the unit's audit trail (append-only on the server), newest first. */
+export async function getUnitHistory(unitId: string, cursor: string | null): Promise<AuditPage> {
+  const params = new URLSearchParams({ unitId, limit: "50" });
+  if (cursor) params.set("cursor", cursor);
+  return api.get<AuditPage>(`/api/audit?${params}`);
 }
 
 /** `revision` changes whenever the unit page sees a new evaluation, disposition or customer, so the trail follows. */
 export const getUnitHistoryQueryOptions = (workshopId: string, unitId: string, revision: string) =>
-  queryOptions({ queryKey: ["workshops", workshopId, "units", unitId, "history", revision], queryFn: () => getUnitHistory(unitId) });
+  infiniteQueryOptions({
+    queryKey: ["workshops", workshopId, "units", unitId, "history", revision],
+    queryFn: ({ pageParam }) => getUnitHistory(unitId, pageParam),
+    initialPageParam: null as string | null,
+    getNextPageParam: (last) => last.nextCursor,
+  });
 
 export function useUnitHistory(workshopId: string, unitId: string, revision: string) {
-  return useQuery({ ...getUnitHistoryQueryOptions(workshopId, unitId, revision), placeholderData: (previous) => previous });
+  return useInfiniteQuery({ ...getUnitHistoryQueryOptions(workshopId, unitId, revision), placeholderData: (previous) => previous });
 }

@@ -1,6 +1,7 @@
 import { verdictLabels, type Verdict } from "@shared/schemas/evaluation";
 import { dispositionLabels, type DispositionDecision } from "@shared/schemas/batch";
 import { Alert } from "@/components/ui/alert";
+import { Button } from "@/components/ui/button";
 import { Spinner } from "@/components/ui/spinner";
 import { formatDateTime } from "@/lib/format";
 import { useUnitHistory, type AuditEvent } from "../api/get-unit-history";
@@ -34,23 +35,31 @@ export function UnitHistory({ workshopId, unitId, revision }: { workshopId: stri
   const history = useUnitHistory(workshopId, unitId, revision);
   if (history.isPending) return <Spinner label="Loading the history…" />;
   if (history.isError) return <Alert tone="error">{history.error.message}</Alert>;
-  if (history.data.length === 0) return <p className="text-ink-soft">Nothing has happened to this unit yet beyond its creation.</p>;
+  const events = history.data.pages.flatMap((page) => page.events);
+  if (events.length === 0) return <p className="text-ink-soft">Nothing has happened to this unit yet beyond its creation.</p>;
   return (
-    <ol aria-label="Unit history" className="divide-y divide-line text-caption">
-      {history.data.map((event) => {
-        const more = detail(event);
-        return (
-          <li key={event.id} className="flex flex-wrap justify-between gap-2 py-2">
-            <span>
-              <span className="font-semibold">{actionWords[event.action] ?? event.action}</span>
-              {more ? `: ${more}` : ""}
-            </span>
-            <span className="text-ink-soft">
-              {event.actor} · {formatDateTime(event.at)}
-            </span>
-          </li>
-        );
-      })}
-    </ol>
+    <div className="flex flex-col gap-2">
+      <ol aria-label="Unit history" className="divide-y divide-line text-caption">
+        {events.map((event) => {
+          const more = detail(event);
+          return (
+            <li key={event.id} className="flex flex-wrap justify-between gap-2 py-2">
+              <span>
+                <span className="font-semibold">{actionWords[event.action] ?? event.action}</span>
+                {more ? `: ${more}` : ""}
+              </span>
+              <span className="text-ink-soft">
+                {event.actor} · {formatDateTime(event.at)}
+              </span>
+            </li>
+          );
+        })}
+      </ol>
+      {history.hasNextPage ? (
+        <Button variant="secondary" className="self-start" pending={history.isFetchingNextPage} onClick={() => void history.fetchNextPage()}>
+          Show older entries
+        </Button>
+      ) : null}
+    </div>
   );
 }

@@ -1,0 +1,5 @@
+/** Types for packages that ship none. */
+declare module "fxa-common-password-list" {
+  const list: { test(password: string): boolean };
+  export default list;
+}
