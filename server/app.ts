@@ -16,7 +16,7 @@ import type { Logger } from "./logger.ts";
 import type { Mailer } from "./mail/mailer.ts";
 import { contextMiddleware, createSessionCache, sessionToken } from "./middleware/context.ts";
 import { apiNotFound, errorHandler } from "./middleware/errors.ts";
-import { readAuthBody, refuseDeclaredOversize, type BodyLimits } from "./middleware/body-limit.ts";
+import { MULTIPART_OVERHEAD_BYTES, readAuthBody, refuseDeclaredOversize, type BodyLimits } from "./middleware/body-limit.ts";
 import { sameOriginJson } from "./middleware/origin.ts";
 import { cleanStrings } from "../shared/text.ts";
 import { batchRoutes } from "./routes/batches.ts";
@@ -80,7 +80,7 @@ export function createApp(deps: AppDeps) {
     }),
   );
   app.use(pinoHttp({ logger: deps.logger, autoLogging: { ignore: (req) => !req.url?.startsWith("/api") } }));
-  const limits: BodyLimits = { authBytes: 16 * 1024, jsonBytes: 1024 * 1024, multipartBytes: deps.env.UPLOAD_LIMIT_MB * 1024 * 1024 + 64 * 1024 };
+  const limits: BodyLimits = { authBytes: 16 * 1024, jsonBytes: 1024 * 1024, multipartBytes: deps.env.UPLOAD_LIMIT_MB * 1024 * 1024 + MULTIPART_OVERHEAD_BYTES };
   app.use(refuseDeclaredOversize(limits));
 
   // better-auth sees a Web Request without the socket, so it rate-limits by X-Forwarded-For. Give it

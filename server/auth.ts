@@ -6,7 +6,7 @@
 import { betterAuth } from "better-auth";
 import { drizzleAdapter } from "better-auth/adapters/drizzle";
 import { APIError } from "better-auth/api";
-import { asc, eq } from "drizzle-orm";
+import { and, asc, desc, eq, gt } from "drizzle-orm";
 import { organization } from "better-auth/plugins";
 import { ac, roles } from "../shared/permissions.ts";
 import { passwordMaxLength, passwordMinLength } from "../shared/schemas/account.ts";
@@ -34,6 +34,15 @@ export function createAuth({ db, env, mailer, logger }: AuthDeps) {
     if (!mailer) return;
     if (!env.SMTP_URL) logger?.info({ to: mail.to, link }, "account mail captured in-process (no SMTP_URL); its link");
     void mailer.send({ ...mail, workshopId: null, kind: "other" }).catch((err) => logger?.error({ err }, "could not record an account mail"));
+  };
+  const confirmedPageFor = (email: string) => {
+    const open = db
+      .select({ id: schema.invitation.id })
+      .from(schema.invitation)
+      .where(and(eq(schema.invitation.email, email.toLowerCase()), eq(schema.invitation.status, "pending"), gt(schema.invitation.expiresAt, new Date())))
+      .orderBy(desc(schema.invitation.createdAt))
+      .get();
+    return open ? `${CONFIRMED_PAGE}?next=${encodeURIComponent(`/invite/${open.id}`)}` : CONFIRMED_PAGE;
   };
   /** Ends every session of a user (removed from a workshop, role changed): their old cookies get 401 at once. */
   const endSessionsOf = (userId: string) => db.delete(schema.session).where(eq(schema.session.userId, userId)).run();
@@ -70,8 +79,10 @@ export function createAuth({ db, env, mailer, logger }: AuthDeps) {
       autoSignInAfterVerification: true,
       expiresIn: 60 * 60 * 24,
       async sendVerificationEmail({ user, url }) {
-        // better-auth sends the person to "/" when the form named no place; ours is the confirmation page.
-        const link = url.replace(/callbackURL=%2F$/, `callbackURL=${encodeURIComponent(CONFIRMED_PAGE)}`);
+        // better-auth sends the person to "/" when the form named no place (a sign-in before confirming
+        // sends a fresh link that way). Ours is the confirmation page, and for someone invited it leads on
+        // to the open invitation, so a resent link returns to it as the one from the sign-up form does.
+        const link = url.replace(/callbackURL=%2F$/, `callbackURL=${encodeURIComponent(confirmedPageFor(user.email))}`);
         sendAccountMail({ to: user.email, ...verifyAddressMail({ name: user.name, link }) }, link);
       },
     },

@@ -16,20 +16,31 @@ export type BodyLimits = {
   multipartBytes: number;
 };
 
-function limitFor(path: string, contentType: string, limits: BodyLimits): number {
-  if (path.startsWith("/api/auth/") || path === "/api/auth") return limits.authBytes;
-  if (contentType.startsWith("multipart/form-data")) return limits.multipartBytes;
-  return limits.jsonBytes;
+function limitFor(path: string, contentType: string, limits: BodyLimits): { bytes: number; message: string } {
+  const generic = (bytes: number) => ({ bytes, message: `The request body is larger than ${Math.round(bytes / 1024)} kB, the most this address accepts.` });
+  if (path.startsWith("/api/auth/") || path === "/api/auth") return generic(limits.authBytes);
+  if (contentType.startsWith("multipart/form-data")) {
+    // Uploads are recordings: say the limit in the unit the maker set it in, and what to do about it.
+    const mb = Number(((limits.multipartBytes - MULTIPART_OVERHEAD_BYTES) / (1024 * 1024)).toFixed(2));
+    return {
+      bytes: limits.multipartBytes,
+      message: `The upload is larger than the upload limit of ${mb} MB. Trim the recording to the strike and its ring (a few seconds), then upload again.`,
+    };
+  }
+  return generic(limits.jsonBytes);
 }
+
+/** Room for the form's other parts (unit, support, notes) beside the recording itself. */
+export const MULTIPART_OVERHEAD_BYTES = 64 * 1024;
 
 export function refuseDeclaredOversize(limits: BodyLimits): RequestHandler {
   return (req, res, next) => {
     const declared = Number(req.get("content-length") ?? 0);
     const limit = limitFor(req.path, req.get("content-type") ?? "", limits);
-    if (Number.isFinite(declared) && declared > limit) {
+    if (Number.isFinite(declared) && declared > limit.bytes) {
       // Answer without reading the body; closing stops Node from draining the rest of it.
       res.set("Connection", "close");
-      return next(new HttpError(413, "payload_too_large", `The request body is larger than ${Math.round(limit / 1024)} kB, the most this address accepts.`));
+      return next(new HttpError(413, "payload_too_large", limit.message));
     }
     next();
   };

@@ -79,14 +79,14 @@ describe("joining a workshop by invitation", () => {
   it("an accepted invitation shows nothing any more", async () => {
     const { page } = e2e.browser;
     await page.goto(inviteLink);
-    await page.getByRole("heading", { name: "Not found" }).waitFor();
-    await page.getByText("This invitation is not open any more").waitFor();
+    await page.getByRole("heading", { name: "This invitation is not open any more" }).waitFor();
+    await page.getByText("If you joined already, sign in.").waitFor();
   });
 
   it("an unknown invitation says plainly that it was not found", async () => {
     const { page } = e2e.browser;
     await page.goto(`${e2e.server.baseUrl}/invite/no-such-invitation`);
-    await page.getByRole("heading", { name: "This invitation link does not work" }).waitFor();
+    await page.getByRole("heading", { name: "This invitation is not open any more" }).waitFor();
     await page.getByText("ask the workshop owner to send a new invitation").waitFor();
     await screenshot(page, "e2e-invitation-not-found");
   });

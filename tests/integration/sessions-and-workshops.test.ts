@@ -29,7 +29,9 @@ const post = (url: string, cookie: string, body: object = {}) => request(t.app).
 /** The statuses of a read, a write and a sign-in library call made with `cookie`. */
 async function statusesWith(cookie: string) {
   return [
-    (await get("/api/me", cookie)).status,
+    // /api/me answers a signed-out browser with 200 and `user: null` (nobody is signed in is an answer, not
+    // an error), so its entry here is 200 only while the cookie still names a person, 401 once it does not.
+    (await get("/api/me", cookie)).body.user ? 200 : 401,
     (await get("/api/batches", cookie)).status,
     (await post("/api/batches", cookie, {})).status,
     (await get("/api/auth/organization/list", cookie)).status,

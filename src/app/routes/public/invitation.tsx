@@ -31,9 +31,9 @@ export function InvitationRoute() {
   if (me.isError) throw me.error;
   if (!invitationFound(invitation.data)) {
     return (
-      <AuthLayout title="This invitation link does not work" intro="No invitation matches it: it may have been cut short when copied, or replaced by a newer invitation.">
+      <AuthLayout title="This invitation is not open any more" intro="It was accepted, cancelled or has expired, or the link was not opened whole.">
         <div className="flex flex-col gap-4">
-          <p>Open the link from the invitation e-mail again. If it still does not work, ask the workshop owner to send a new invitation.</p>
+          <p>If you joined already, sign in. Otherwise open the link from the invitation e-mail again, and if it still does not work, ask the workshop owner to send a new invitation.</p>
           {me.data ? null : (
             <p>
               <ButtonLink to={paths.auth.signIn.getHref()} variant="secondary">
