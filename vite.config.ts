@@ -11,6 +11,6 @@ export default defineConfig({
       "@": fileURLToPath(new URL("./src", import.meta.url)),
     },
   },
-  build: { outDir: "dist/client", emptyOutDir: true, chunkSizeWarningLimit: 1500 },
+  build: { outDir: "dist/client", emptyOutDir: true, manifest: true },
   server: { port: 5173, proxy: { "/api": "http://127.0.0.1:3000" } },
 });

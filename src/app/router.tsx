@@ -1,5 +1,5 @@
 /**
- * The route tree. Every route has the same error element, which branches on the status
+ * The route tree. Every page module is loaded lazily (see `page`). Every route has the same error element, which branches on the status
  * (401 → sign in, 403/404 → a plain sentence). Loaders are factories over the query client.
  */
 import type { QueryClient } from "@tanstack/react-query";
@@ -8,34 +8,15 @@ import { RouteError } from "@/components/errors/route-error";
 import { paths } from "@/config/paths";
 import { ApiError } from "@/lib/api-client";
 import { PageLoading } from "./page-loading";
-import { AppRoot, appLoader } from "./routes/app/root";
-import { BatchLedgerRoute, batchLedgerLoader } from "./routes/app/batches/batch-ledger";
-import { BatchNewRoute, batchNewLoader } from "./routes/app/batches/batch-new";
-import { BatchesListRoute, batchesListLoader } from "./routes/app/batches/batches-list";
-import { DashboardRoute, dashboardLoader } from "./routes/app/dashboard";
-import { InstrumentRoute, instrumentLoader } from "./routes/app/instruments/instrument";
-import { InstrumentsListRoute, instrumentsListLoader } from "./routes/app/instruments/instruments-list";
-import { SettingsRoute, settingsLoader } from "./routes/app/settings";
-import { SpecDetailRoute, specDetailLoader } from "./routes/app/specs/spec-detail";
-import { SpecEditRoute, specEditLoader } from "./routes/app/specs/spec-edit";
-import { SpecModesRoute, specModesLoader } from "./routes/app/specs/spec-modes";
-import { SpecNewRoute, specNewLoader } from "./routes/app/specs/spec-new";
-import { SpecsListRoute, specsListLoader } from "./routes/app/specs/specs-list";
-import { StrikeRoute, strikeLoader } from "./routes/app/strike";
-import { UnitRoute, unitLoader } from "./routes/app/units/unit";
-import { MembersRoute, membersLoader } from "./routes/app/members";
-import { OutboxMessageRoute, outboxMessageLoader } from "./routes/app/outbox-message";
-import { OutboxRoute, outboxLoader } from "./routes/app/outbox";
-import { CheckMailRoute } from "./routes/auth/check-mail";
-import { CreateWorkshopRoute, createWorkshopLoader } from "./routes/auth/create-workshop";
-import { EmailConfirmedRoute, emailConfirmedLoader } from "./routes/auth/email-confirmed";
-import { ForgotPasswordRoute } from "./routes/auth/forgot-password";
-import { ResetPasswordRoute } from "./routes/auth/reset-password";
-import { SignInRoute, signInLoader } from "./routes/auth/sign-in";
-import { SignUpRoute, signUpLoader } from "./routes/auth/sign-up";
-import { InvitationRoute, invitationLoader } from "./routes/public/invitation";
-import { PublicLayout } from "./routes/public/public-layout";
-import { VerifyRoute, verifyLoader } from "./routes/public/verify";
+
+/**
+ * A route module fetched when its route is first matched, so a visitor downloads only the pages
+ * they open (the sign-in page stays small; charts, recorder and spec editor come when visited).
+ * The module's loader is a factory over the query client; `pick` binds it.
+ */
+function page<M>(load: () => Promise<M>, pick: (module: M) => Pick<RouteObject, "Component" | "loader">) {
+  return async () => pick(await load());
+}
 
 export function createRoutes(queryClient: QueryClient): RouteObject[] {
   const errorElement = <RouteError />;
@@ -47,58 +28,55 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
       // A pathless layout route: its error element catches what a child's own does not.
       children: [
         { path: paths.home.path, loader: () => redirect(paths.app.root.getHref()) },
-        { path: paths.auth.signIn.path, loader: signInLoader(queryClient), element: <SignInRoute />, errorElement },
-        { path: paths.auth.signUp.path, loader: signUpLoader(queryClient), element: <SignUpRoute />, errorElement },
-        { path: paths.auth.createWorkshop.path, loader: createWorkshopLoader(queryClient), element: <CreateWorkshopRoute />, errorElement },
-        { path: paths.auth.checkMail.path, element: <CheckMailRoute />, errorElement },
-        { path: paths.auth.emailConfirmed.path, loader: emailConfirmedLoader(queryClient), element: <EmailConfirmedRoute />, errorElement },
-        { path: paths.auth.forgotPassword.path, element: <ForgotPasswordRoute />, errorElement },
-        { path: paths.auth.resetPassword.path, element: <ResetPasswordRoute />, errorElement },
+        { path: paths.auth.signIn.path, lazy: page(() => import("./routes/auth/sign-in"), (m) => ({ Component: m.SignInRoute, loader: m.signInLoader(queryClient) })), errorElement },
+        { path: paths.auth.signUp.path, lazy: page(() => import("./routes/auth/sign-up"), (m) => ({ Component: m.SignUpRoute, loader: m.signUpLoader(queryClient) })), errorElement },
+        { path: paths.auth.createWorkshop.path, lazy: page(() => import("./routes/auth/create-workshop"), (m) => ({ Component: m.CreateWorkshopRoute, loader: m.createWorkshopLoader(queryClient) })), errorElement },
+        { path: paths.auth.checkMail.path, lazy: page(() => import("./routes/auth/check-mail"), (m) => ({ Component: m.CheckMailRoute })), errorElement },
+        { path: paths.auth.emailConfirmed.path, lazy: page(() => import("./routes/auth/email-confirmed"), (m) => ({ Component: m.EmailConfirmedRoute, loader: m.emailConfirmedLoader(queryClient) })), errorElement },
+        { path: paths.auth.forgotPassword.path, lazy: page(() => import("./routes/auth/forgot-password"), (m) => ({ Component: m.ForgotPasswordRoute })), errorElement },
+        { path: paths.auth.resetPassword.path, lazy: page(() => import("./routes/auth/reset-password"), (m) => ({ Component: m.ResetPasswordRoute })), errorElement },
         {
           // No sign-in needed below here: the invitation landing and certificate verification.
-          element: <PublicLayout />,
+          lazy: page(() => import("./routes/public/public-layout"), (m) => ({ Component: m.PublicLayout })),
           errorElement,
           children: [
             {
               path: paths.public.invitation.path,
-              loader: invitationLoader(queryClient),
-              element: <InvitationRoute />,
+              lazy: page(() => import("./routes/public/invitation"), (m) => ({ Component: m.InvitationRoute, loader: m.invitationLoader(queryClient) })),
               errorElement: <RouteError notFoundHint="This invitation is not open any more: it was accepted, cancelled or has expired, or the link was not opened whole. If you joined already, sign in; otherwise ask the workshop owner to send a new invitation." />,
             },
             {
               path: paths.public.verify.path,
-              loader: verifyLoader(queryClient),
-              element: <VerifyRoute />,
+              lazy: page(() => import("./routes/public/verify"), (m) => ({ Component: m.VerifyRoute, loader: m.verifyLoader(queryClient) })),
               errorElement: <RouteError />,
             },
           ],
         },
         {
           path: paths.app.root.path,
-          loader: appLoader(queryClient),
-          element: <AppRoot />,
+          lazy: page(() => import("./routes/app/root"), (m) => ({ Component: m.AppRoot, loader: m.appLoader(queryClient) })),
           errorElement,
           children: [
             // Errors of a page render inside the shell, so navigation stays at hand.
             {
               errorElement: <RouteError embedded />,
               children: [
-                { index: true, loader: dashboardLoader(queryClient), element: <DashboardRoute /> },
-                { path: paths.app.batches.path, loader: batchesListLoader(queryClient), element: <BatchesListRoute /> },
-                { path: paths.app.newBatch.path, loader: batchNewLoader(queryClient), element: <BatchNewRoute /> },
-                { path: paths.app.batch.path, loader: batchLedgerLoader(queryClient), element: <BatchLedgerRoute /> },
-                { path: paths.app.unit.path, loader: unitLoader(queryClient), element: <UnitRoute /> },
-                { path: paths.app.specifications.path, loader: specsListLoader(queryClient), element: <SpecsListRoute /> },
-                { path: paths.app.newSpecification.path, loader: specNewLoader(queryClient), element: <SpecNewRoute /> },
-                { path: paths.app.specification.path, loader: specDetailLoader(queryClient), element: <SpecDetailRoute /> },
-                { path: paths.app.editSpecification.path, loader: specEditLoader(queryClient), element: <SpecEditRoute /> },
-                { path: paths.app.specificationModes.path, loader: specModesLoader(queryClient), element: <SpecModesRoute /> },
-                { path: paths.app.settings.path, loader: settingsLoader(queryClient), element: <SettingsRoute /> },
-                { path: paths.app.instruments.path, loader: instrumentsListLoader(queryClient), element: <InstrumentsListRoute /> },
-                { path: paths.app.instrument.path, loader: instrumentLoader(queryClient), element: <InstrumentRoute /> },
-                { path: paths.app.members.path, loader: membersLoader(queryClient), element: <MembersRoute /> },
-                { path: paths.app.outbox.path, loader: outboxLoader(queryClient), element: <OutboxRoute /> },
-                { path: paths.app.outboxMessage.path, loader: outboxMessageLoader(queryClient), element: <OutboxMessageRoute /> },
+                { index: true, lazy: page(() => import("./routes/app/dashboard"), (m) => ({ Component: m.DashboardRoute, loader: m.dashboardLoader(queryClient) })) },
+                { path: paths.app.batches.path, lazy: page(() => import("./routes/app/batches/batches-list"), (m) => ({ Component: m.BatchesListRoute, loader: m.batchesListLoader(queryClient) })) },
+                { path: paths.app.newBatch.path, lazy: page(() => import("./routes/app/batches/batch-new"), (m) => ({ Component: m.BatchNewRoute, loader: m.batchNewLoader(queryClient) })) },
+                { path: paths.app.batch.path, lazy: page(() => import("./routes/app/batches/batch-ledger"), (m) => ({ Component: m.BatchLedgerRoute, loader: m.batchLedgerLoader(queryClient) })) },
+                { path: paths.app.unit.path, lazy: page(() => import("./routes/app/units/unit"), (m) => ({ Component: m.UnitRoute, loader: m.unitLoader(queryClient) })) },
+                { path: paths.app.specifications.path, lazy: page(() => import("./routes/app/specs/specs-list"), (m) => ({ Component: m.SpecsListRoute, loader: m.specsListLoader(queryClient) })) },
+                { path: paths.app.newSpecification.path, lazy: page(() => import("./routes/app/specs/spec-new"), (m) => ({ Component: m.SpecNewRoute, loader: m.specNewLoader(queryClient) })) },
+                { path: paths.app.specification.path, lazy: page(() => import("./routes/app/specs/spec-detail"), (m) => ({ Component: m.SpecDetailRoute, loader: m.specDetailLoader(queryClient) })) },
+                { path: paths.app.editSpecification.path, lazy: page(() => import("./routes/app/specs/spec-edit"), (m) => ({ Component: m.SpecEditRoute, loader: m.specEditLoader(queryClient) })) },
+                { path: paths.app.specificationModes.path, lazy: page(() => import("./routes/app/specs/spec-modes"), (m) => ({ Component: m.SpecModesRoute, loader: m.specModesLoader(queryClient) })) },
+                { path: paths.app.settings.path, lazy: page(() => import("./routes/app/settings"), (m) => ({ Component: m.SettingsRoute, loader: m.settingsLoader(queryClient) })) },
+                { path: paths.app.instruments.path, lazy: page(() => import("./routes/app/instruments/instruments-list"), (m) => ({ Component: m.InstrumentsListRoute, loader: m.instrumentsListLoader(queryClient) })) },
+                { path: paths.app.instrument.path, lazy: page(() => import("./routes/app/instruments/instrument"), (m) => ({ Component: m.InstrumentRoute, loader: m.instrumentLoader(queryClient) })) },
+                { path: paths.app.members.path, lazy: page(() => import("./routes/app/members"), (m) => ({ Component: m.MembersRoute, loader: m.membersLoader(queryClient) })) },
+                { path: paths.app.outbox.path, lazy: page(() => import("./routes/app/outbox"), (m) => ({ Component: m.OutboxRoute, loader: m.outboxLoader(queryClient) })) },
+                { path: paths.app.outboxMessage.path, lazy: page(() => import("./routes/app/outbox-message"), (m) => ({ Component: m.OutboxMessageRoute, loader: m.outboxMessageLoader(queryClient) })) },
                 { path: "*", loader: notFoundLoader },
               ],
             },
@@ -107,10 +85,9 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
         {
           // The strike page lives at /strikes/:strikeId but inside the same signed-in shell.
           path: paths.strike.path,
-          loader: appLoader(queryClient),
-          element: <AppRoot />,
+          lazy: page(() => import("./routes/app/root"), (m) => ({ Component: m.AppRoot, loader: m.appLoader(queryClient) })),
           errorElement,
-          children: [{ errorElement: <RouteError embedded />, children: [{ index: true, loader: strikeLoader(queryClient), element: <StrikeRoute /> }] }],
+          children: [{ errorElement: <RouteError embedded />, children: [{ index: true, lazy: page(() => import("./routes/app/strike"), (m) => ({ Component: m.StrikeRoute, loader: m.strikeLoader(queryClient) })) }] }],
         },
         { path: "*", loader: notFoundLoader },
       ],
