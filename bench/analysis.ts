@@ -2,7 +2,7 @@
  * `npm run bench`: speed and accuracy of the analysis engine on generated strikes (fixed seeds).
  * Speed: per file, median of 7 runs after 2 warm-ups, on the main thread (one core). Accuracy:
  * errors against the analytic ground truth with the reported Cramér–Rao bound beside each.
- * A benchmark, not a test: it prints figures and marks them against issue 3's targets.
+ * A benchmark, not a test: it prints figures and marks them against our targets (printed beside each figure).
  */
 import { spawnSync } from "node:child_process";
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";

@@ -1,5 +1,5 @@
 #!/usr/bin/env node
-// Makes sure the browser tests have a Chromium to drive (STACK.md "Browser tests": Debian's package,
+// Makes sure the browser tests have a Chromium to drive: Debian's package,
 // never a browser download, which cannot reach the network here). Prints the path it found.
 import { execFileSync, spawnSync } from "node:child_process";
 import { accessSync, constants } from "node:fs";

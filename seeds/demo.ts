@@ -1,5 +1,5 @@
 /**
- * The invented demo workshop (DESIGN.md §9): seeded on an empty database unless SEED_DEMO=0.
+ * The invented demo workshop: seeded on an empty database unless SEED_DEMO=0.
  * Everything here is made up: the workshops, the people and their addresses.
  */
 import { createHash, randomUUID } from "node:crypto";

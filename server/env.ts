@@ -1,5 +1,5 @@
 /**
- * Configuration, parsed once at start-up with zod (DESIGN.md §8). A wrong variable fails loudly with
+ * Configuration, parsed once at start-up with zod, so no other module reads process.env. A wrong variable fails loudly with
  * a list of what is wrong; every variable has a safe default for the embedded demo.
  */
 import { randomBytes } from "node:crypto";

@@ -1,4 +1,4 @@
-/** The one error vocabulary of the API (DESIGN.md §9): `{ error: { code, message, fields? } }`. */
+/** The one error vocabulary of the API: `{ error: { code, message, fields? } }`. */
 import { z } from "zod";
 
 export const errorCodes = [

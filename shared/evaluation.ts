@@ -1,5 +1,5 @@
 /**
- * Evaluation of a unit against its spec version (DESIGN.md §5): match measured partials to the
+ * Evaluation of a unit against its spec version: match measured partials to the
  * spec's requirements, correct to the reference temperature, combine the unit's strikes, apply
  * the decision rule and, for a fundamental out of tolerance, give tuning guidance.
  *

@@ -1,5 +1,5 @@
 /**
- * What each workshop role may do (DESIGN.md §2). One statement, used three ways:
+ * What each workshop role may do. One statement, used three ways:
  * better-auth's organization plugin enforces it on its own endpoints, the server's route guards
  * (`requirePermission`) check it on ours, and the client hides what a role may not use.
  */

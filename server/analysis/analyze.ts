@@ -1,5 +1,5 @@
 /**
- * The pipeline (DESIGN.md §4): decode → validate → condition → segment strikes → find partials →
+ * The pipeline: decode → validate → condition → segment strikes → find partials →
  * refine each partial → classify → report. Pure: bytes in, numbers out.
  */
 import type { AnalysisResult, AnalysisWarning, Partial, StrikePlot, StrikeResult } from "../../shared/schemas/analysis";

@@ -1,6 +1,6 @@
 /**
  * Tinelog's strike analysis engine: a pure core (bytes in, numbers out; no fs, no Express, no DB).
- * See DESIGN.md §4 and shared/schemas/analysis.ts for the result contract.
+ * shared/schemas/analysis.ts holds the result contract.
  */
 import type { AnalysisResult } from "../../shared/schemas/analysis";
 import { analyzeWavTimed } from "./analyze";

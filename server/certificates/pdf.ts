@@ -1,7 +1,7 @@
 /**
- * Renders a test certificate as PDF (issue 6 §2). Content follows ISO/IEC 17025:2017 §7.8 in our
+ * Renders a test certificate as PDF: every item a customer's report needs. Content follows ISO/IEC 17025:2017 §7.8 in our
  * own wording; the look is Tinelog's own (calm slate and teal, Inter embedded from
- * @expo-google-fonts/inter as TTF, which pdfkit can subset — STACK.md trap 7).
+ * @expo-google-fonts/inter as TTF, which pdfkit can subset; pdfkit cannot subset the WOFF2 files most font packages ship).
  *
  * Deterministic: the same CertificateData gives the same bytes (CreationDate/ModDate come from
  * issuedAt, pdfkit derives the file ID from the info dictionary, fonts and QR are generated without

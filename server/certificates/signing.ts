@@ -1,5 +1,5 @@
 /**
- * Tamper evidence for certificates (issue 6 §3): an Ed25519 key kept as PEM files in its own
+ * Tamper evidence for certificates, so a customer can tell an altered PDF from ours: an Ed25519 key kept as PEM files in its own
  * directory (never inside the SQLite file), RFC 8785 canonical JSON of the certificate data,
  * a detached signature over it, and the PDF's SHA-256.
  */

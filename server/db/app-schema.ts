@@ -47,7 +47,7 @@ export const capturedMail = sqliteTable(
   (t) => [index("captured_mail_message_id_idx").on(t.messageId)],
 );
 
-/** Append-only record of who did what (DESIGN.md §3). Never updated or deleted. */
+/** Append-only record of who did what, so every change can be traced to a person. Never updated or deleted. */
 export const auditEvent = sqliteTable(
   "audit_event",
   {

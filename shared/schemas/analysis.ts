@@ -1,5 +1,5 @@
 /**
- * The strike analysis result (DESIGN.md §4): what the engine returns, what the CLI prints with
+ * The strike analysis result: what the engine returns, what the CLI prints with
  * `--json`, what the server stores and what the client draws. Units are in the field names.
  * The engine may add fields; renaming these breaks the ledger, the CLI contract and external checks.
  */

@@ -1,4 +1,4 @@
-/** Batches, units and their ledger rows (DESIGN.md §3, §9). */
+/** Batches, units and their ledger rows. */
 import { z } from "zod";
 import type { Family } from "./spec.ts";
 import type { EvaluationView, Verdict } from "./evaluation.ts";

@@ -1,5 +1,5 @@
 /**
- * Test certificates (issue 6): the request that issues one, and `CertificateData`, everything the
+ * Test certificates: the request that issues one, and `CertificateData`, everything the
  * PDF shows and the signature covers. Content follows ISO/IEC 17025:2017 §7.8 (reports of
  * results), in our own wording: identification on every page, method, conditions, results with
  * units and expanded uncertainty, decision rule, statement of conformity, authorisation, amendments.

@@ -1,4 +1,4 @@
-/** A unit's evaluation against its spec version (DESIGN.md §5). */
+/** A unit's evaluation against its spec version. */
 import type { EvaluationTraceability } from "./instrument.ts";
 import type { DecisionRule } from "./spec.ts";
 

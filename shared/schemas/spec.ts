@@ -1,5 +1,5 @@
 /**
- * Product specifications (DESIGN.md §3, §5). A spec version is immutable: editing makes a new
+ * Product specifications: partials with targets and tolerances, the decision rule and the references. A spec version is immutable: editing makes a new
  * version, and batches keep the version they were made under. The same schema validates the
  * editor form and the request.
  */

@@ -1,4 +1,4 @@
-/** Uploaded strikes and the unit page (DESIGN.md §3, §9). */
+/** Uploaded strikes and the unit page. */
 import { z } from "zod";
 import type { AnalysisResult } from "./analysis.ts";
 import type { DispositionDecision, BatchState } from "./batch.ts";
@@ -70,7 +70,7 @@ export type StrikeDetail = StrikeSummary & {
   finishedAt: string | null;
   /** The analysis result, with plot series, when state is done. */
   result: AnalysisResult | null;
-  /** DESIGN.md §9 fields at the top level (from `result`, without the plot series); empty until done. */
+  /** The headline analysis fields at the top level (from `result`, without the plot series); empty until done. */
   warnings: AnalysisResult["warnings"];
   strikes: Omit<AnalysisResult["strikes"][number], "plot">[];
   unit: { id: string; serial: string; batchId: string; batchCode: string };

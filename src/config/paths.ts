@@ -1,5 +1,5 @@
 /**
- * Every route path of the client, in one place (STYLE.md). Components link with `getHref`,
+ * Every route path of the client, in one place, so a renamed page changes one line. Components link with `getHref`,
  * the router matches `path`. Nothing else in src/ spells a URL of a page.
  */
 export const paths = {

@@ -1,5 +1,5 @@
 /**
- * The stored SHA-256 of a certificate PDF must be reproducible (issue 6 §3): the same data must give
+ * The stored SHA-256 of a certificate PDF must be reproducible, or the hash cannot prove a PDF unaltered: the same data must give
  * the same bytes, whatever the machine's time zone, and different data different bytes.
  */
 import { PDFParse } from "pdf-parse";

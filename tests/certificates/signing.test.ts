@@ -1,5 +1,5 @@
 /**
- * Tamper evidence (issue 6 §3): Ed25519 signatures over RFC 8785 canonical JSON, key files on disk,
+ * Tamper evidence: Ed25519 signatures over RFC 8785 canonical JSON, key files on disk,
  * SHA-256 and verification codes. Outside references are named beside each check.
  */
 import { createPrivateKey } from "node:crypto";

@@ -1,6 +1,6 @@
 /**
- * Template test (issue 6, Tests): renders certificates and reads them back with pdf-parse (pdf.js),
- * failing when any item the issue lists in §2 — the content ISO/IEC 17025:2017 §7.8 asks of a
+ * Template test: renders certificates and reads them back with pdf-parse (pdf.js),
+ * failing when any required item — the content ISO/IEC 17025:2017 §7.8 asks of a
  * report — is missing or empty. The PDF is also rasterised with poppler and its QR code scanned
  * with jsQR, so the code is checked as a reader would use it.
  */
@@ -12,7 +12,7 @@ import { hasPdftoppm, parsePdf, scanQrOnPage, type ParsedPdf } from "./pdf-text.
 
 const squash = (s: string) => s.replace(/\s+/g, " ").trim();
 
-/** Every item of issue 6 §2 as [what, text that must appear]. Values come from the data, so none is empty. */
+/** Every item a certificate must carry (ISO/IEC 17025:2017 §7.8.2, in our wording) as [what, text that must appear]. Values come from the data, so none is empty. */
 function requiredItems(d: CertificateData): [string, string][] {
   const items: [string, string][] = [
     ["title", "Test certificate"],
@@ -87,7 +87,7 @@ describe("certificate PDF template (one page, guarded rule, musical fork)", () =
     expect(pdf.subarray(0, 5).toString("latin1")).toBe("%PDF-");
   });
 
-  it("contains every required item of issue 6 §2 with its value", () => {
+  it("contains every required item of a certificate with its value", () => {
     expectItems(parsed, requiredItems(data));
   });
 

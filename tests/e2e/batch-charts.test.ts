@@ -1,5 +1,5 @@
 /**
- * The batch charts on the ledger page in a real browser (issue 5 "Done when"): BTW-2611's
+ * The batch charts on the ledger page in a real browser: BTW-2611's
  * individuals chart carries its centre line and control limits, the moving-range chart its
  * limit, the histogram the spec limits (and the control chart none), and Cp/Cpk/Cpl are marked
  * low confidence for ten units. A batch with no measured unit says why the charts wait.

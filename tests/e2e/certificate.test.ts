@@ -1,5 +1,5 @@
 /**
- * Certificates in a real browser (issue 6, "Done when"): qa releases the seeded batch BTW-2611,
+ * Certificates in a real browser: qa releases the seeded batch BTW-2611,
  * previews and issues a certificate for a unit within tolerance; the owner finds the e-mail with
  * its PDF in the outbox, the PDF is downloaded and page 1 rendered with poppler's pdftoppm (a
  * person looks at the PNG in .tmp/); the verification link opens signed out, at phone width.

@@ -1,5 +1,5 @@
 /**
- * The daily loop in a real browser (issue 4, "Done when"): the demo maker drops two recordings on
+ * The daily loop in a real browser: the demo maker drops two recordings on
  * batch BTW-2612 and watches the ledger fill without a reload; the demo qa user finds BTW-2611's
  * two forks out of tolerance, is refused a release while they are open, disposes of them and
  * releases the batch. The strikes are synthesised (tests/support/wav.ts) and analysed by the real

@@ -1,5 +1,5 @@
 /**
- * The strike page in a real browser (issue 5 "Done when"): the demo maker opens a seeded strike of
+ * The strike page in a real browser: the demo maker opens a seeded strike of
  * BTW-2611 and finds the waveform, the spectrum with its partial markers and the decay plots drawn
  * — each canvas checked for pixels of the series' own colour, not just for axes — and the labels
  * on the spectrum match the partials table and the API's labels. A recording that cannot be

@@ -1,6 +1,6 @@
 /**
- * Bad inputs, each with its own expected code and message (DESIGN.md §4: reject with a clear
- * message, or warn and still analyse).
+ * Bad inputs, each with its own expected code and message: the engine either rejects
+ * with a clear message or warns and still analyses.
  */
 import { describe, expect, it } from "vitest";
 import { AnalysisInputError, analyzeWav, readWavHeader } from "../../server/analysis/index";

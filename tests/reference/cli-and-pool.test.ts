@@ -1,5 +1,5 @@
 /**
- * The CLI contract (`npm run -s analyze -- --json FILE...`, DESIGN.md §4) and the worker pool,
+ * The CLI contract (`npm run -s analyze -- --json FILE...`, one JSON result per file) and the worker pool,
  * run as the server and a maker's shell would: a real child process and real worker threads.
  */
 import { execFile } from "node:child_process";

@@ -1,5 +1,5 @@
 /**
- * Fuzzing the decoder and the engine (issue 7, item 5): 500 seeded mutation cases. Each must end
+ * Fuzzing the decoder and the engine: 500 seeded mutation cases. Each must end
  * in a result that satisfies the contract or in an AnalysisInputError with a message — never
  * another exception. The 2 s bound per case holds by design, not by a timer here: the work is
  * bounded by the file size (these are < 100 kB), MAX_DURATION_S, at most 16 strikes × 24 partials,

@@ -26,7 +26,7 @@ describe("isolated partials (analytic ground truth)", () => {
       expect(Math.abs(p.tauS / t.tauS - 1)).toBeLessThan(0.01);
       expect(Math.abs(p.frequencyHz - t.frequencyHz)).toBeLessThan(4 * p.frequencyUncertaintyHz);
       expect(Math.abs(p.tauS - t.tauS)).toBeLessThan(4 * p.tauUncertaintyS);
-      // T60 = τ·ln 1000 and Q = π·f·τ (DESIGN.md §1).
+      // T60 = τ·ln 1000 and Q = π·f·τ (amplitude decays as e^(−t/τ); 60 dB is a factor 1000).
       expect(p.t60S).toBeCloseTo(p.tauS * LN_1000, 9);
       expect(p.q).toBeCloseTo(Math.PI * p.frequencyHz * p.tauS, 6);
       // amplitudeDb applies at amplitudeAtS: A·e^(−(t − onset)/τ) there.

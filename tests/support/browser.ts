@@ -21,7 +21,7 @@ const demoEmail = (role: string, workshop: "demo" | "other") => {
   return found.email;
 };
 
-/** The demo accounts, read from the seed itself (seeds/demo.ts, DESIGN.md §9) so the two cannot drift. */
+/** The demo accounts, read from the seed itself (seeds/demo.ts) so the two cannot drift. */
 export const demo = {
   password: DEMO_PASSWORD,
   owner: demoEmail("owner", "demo"),
@@ -90,8 +90,8 @@ export async function ensureClientBuilt(): Promise<void> {
 export type RunningServer = { baseUrl: string; dataDir: string; output: () => string; stop: () => Promise<void> };
 
 /**
- * Starts `tsx server/index.ts` (node_modules/.bin/tsx, not npx, so one PID stops the whole tree:
- * STACK.md trap 9) and waits until GET /api/health answers `{ ok: true }`.
+ * Starts `tsx server/index.ts` (node_modules/.bin/tsx, not npx, so one PID stops the whole tree;
+ * npx starts a second process that a kill leaves running) and waits until GET /api/health answers `{ ok: true }`.
  */
 export async function startServer({ timeoutMs = 90_000 }: { timeoutMs?: number } = {}): Promise<RunningServer> {
   await ensureClientBuilt();
@@ -160,7 +160,7 @@ export async function startServer({ timeoutMs = 90_000 }: { timeoutMs?: number }
 // ---------------------------------------------------------------------------------------------
 // Browser
 
-/** Flags from STACK.md "Browser tests": headless, no sandbox (root in CI), and no background traffic. */
+/** Flags for Debian's Chromium on a server: headless, no sandbox (root in CI), and no background traffic. */
 export const chromiumArgs = [
   "--headless",
   "--no-sandbox",

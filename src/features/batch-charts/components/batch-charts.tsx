@@ -1,5 +1,5 @@
 /**
- * Batch charts for the ledger (issue 5 §2): an individuals chart of the fundamental's deviation
+ * Batch charts for the ledger: an individuals chart of the fundamental's deviation
  * (cents) in measuring order with x̄ ± 2.66·MR̄, the moving-range chart below it (3.267·MR̄),
  * Nelson rules 1–4 marked; a histogram of deviations with the spec limits (kept off the control
  * chart: control limits describe the process, spec limits the customer's need); capability.

@@ -1,5 +1,5 @@
 /**
- * Compare a unit's strikes (issue 5 §3): their spectra overlaid, the fundamental's decay overlaid
+ * Compare a unit's strikes: their spectra overlaid, the fundamental's decay overlaid
  * (time from each strike's onset, so they start together), and a table of each partial across the
  * strikes — so a maker sees what the support (in hand, suspended, on a stand) does to each partial.
  */

@@ -1,5 +1,5 @@
 /**
- * Record a strike in the browser (issue 5 §4): a count-in that also measures the room noise,
+ * Record a strike in the browser: a count-in that also measures the room noise,
  * an input level meter, a clipping warning while recording, automatic stop once the ring has
  * decayed back into the noise (or after a set time), preview playback, then the WAV goes to the
  * caller's upload path as a File. The microphone is asked for only when Record is pressed, and

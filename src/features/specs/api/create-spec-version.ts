@@ -3,7 +3,7 @@ import type { SpecDetail, SpecInput } from "@shared/schemas/spec";
 import { api } from "@/lib/api-client";
 import { specsKey } from "./get-specs";
 
-/** Editing never changes a version in place: it appends a new, immutable one (DESIGN.md §3). */
+/** Editing never changes a version in place: it appends a new, immutable one, so batches keep the version they were made under. */
 export function createSpecVersion(id: string, input: SpecInput): Promise<SpecDetail> {
   return api.post<SpecDetail>(`/api/specs/${encodeURIComponent(id)}/versions`, input);
 }

@@ -168,7 +168,7 @@ export function SpectrumChart({
     };
     return {
       scales: {
-        // STACK.md trap 10: uPlot's x axis is a time axis unless told otherwise.
+        // uPlot's x axis is a time axis unless told otherwise; frequencies need time: false.
         x: { time: false, distr: scale === "log" ? 3 : 1, log: 10, range: (_u, min, max) => (min === max ? [fLo, fMax] : [Math.max(fLo, min), max]) },
         y: { auto: true },
       },
