@@ -1,5 +1,5 @@
 -- The quality record is append-only: measurements, evaluations, dispositions, the hash chain and
--- the audit trail can be inserted but never changed or removed (DESIGN.md §3).
+-- the audit trail can be inserted but never changed or removed; a correction is a new row that points at what it corrects.
 CREATE TRIGGER `measurement_no_update` BEFORE UPDATE ON `measurement` BEGIN SELECT RAISE(ABORT, 'measurement rows are append-only'); END;
 --> statement-breakpoint
 CREATE TRIGGER `measurement_no_delete` BEFORE DELETE ON `measurement` BEGIN SELECT RAISE(ABORT, 'measurement rows are append-only'); END;

@@ -32,7 +32,7 @@ function requiredItems(d: CertificateData): [string, string][] {
     ["place of measurement", `Place of measurement ${d.conditions.location ?? "at the issuing workshop"}`],
     ["measurement date (from)", d.measuredFrom],
     ["measurement date (to)", d.measuredTo],
-    ["issue date and time", "Date of issue 2026-11-30 14:05 UTC"],
+    ["date and time of issue", "Date of issue 2026-11-30 14:05 UTC"],
     // A frequency corrected to the reference temperature says so in its column header.
     ["results: measured value unit", d.conditions.referenceTemperatureC != null ? `Measured at ${d.conditions.referenceTemperatureC} °C (Hz)` : "Measured (Hz)"],
     ["results: expanded uncertainty with k", "U, k = 2 (Hz)"],
