@@ -28,10 +28,11 @@ describe("the batch charts on the ledger", () => {
     const { page } = e2e.browser;
     await signIn(page, e2e.server.baseUrl, demo.maker);
     const id = await batchIdByCode(page, "BTW-2611");
-    // The seed's strikes are analysed at start: wait until every unit has its deviation.
-    for (let i = 0; i < 180; i++) {
+    // The seed's strikes are analysed at start, a unit's later strikes after its first: wait until
+    // no strike is pending, or the chart and these sums would see different ledgers.
+    for (let i = 0; i < 240; i++) {
       batch = await apiGet<BatchDetail>(page, `/api/batches/${id}`);
-      if (batch.rows.every((r) => r.deviationCents !== null)) break;
+      if (batch.rows.every((r) => r.deviationCents !== null && r.pendingStrikes === 0)) break;
       await new Promise((r) => setTimeout(r, 500));
     }
   });
